@@ -1,0 +1,71 @@
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import { chromium, type BrowserContext, type Page } from 'playwright-core';
+
+export const BASE_URL = process.env.E2E_BASE_URL ?? 'http://127.0.0.1:8080';
+export const SHOTS = path.resolve(__dirname, '../../artifacts/screenshots');
+export const PHONE = { width: 390, height: 844 };
+export const WIDE = { width: 1280, height: 800 };
+
+export interface Browser {
+  context: BrowserContext;
+  page: Page;
+  /** Every URL the page asked for that was not on the Fieldfold server (should stay empty: fonts ship with the app). */
+  offsite: string[];
+  close: () => Promise<void>;
+}
+
+/** Debian's chromium, headless, with a fresh profile and background networking off (the machine has no internet). */
+export async function openBrowser(viewport: { width: number; height: number }): Promise<Browser> {
+  const profile = fs.mkdtempSync(path.join(os.tmpdir(), 'fieldfold-chromium-'));
+  const context = await chromium.launchPersistentContext(profile, {
+    executablePath: '/usr/bin/chromium',
+    headless: true,
+    viewport,
+    args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'],
+  });
+  const page = context.pages()[0] ?? (await context.newPage());
+  const offsite: string[] = [];
+  page.on('request', (req) => {
+    const url = req.url();
+    if (!url.startsWith(BASE_URL) && !url.startsWith('data:') && !url.startsWith('blob:')) offsite.push(url);
+  });
+  return {
+    context,
+    page,
+    offsite,
+    close: async () => {
+      await context.close();
+      fs.rmSync(profile, { recursive: true, force: true });
+    },
+  };
+}
+
+export async function screenshot(page: Page, name: string) {
+  fs.mkdirSync(SHOTS, { recursive: true });
+  await page.screenshot({ path: path.join(SHOTS, `${name}.png`), fullPage: true });
+}
+
+/** A labelled input on the visible screen (a stack navigator can keep a hidden copy of the previous screen). */
+export function field(page: Page, label: string) {
+  return page.getByLabel(label, { exact: true }).filter({ visible: true });
+}
+
+export function button(page: Page, name: string) {
+  return page.getByRole('button', { name, exact: true }).filter({ visible: true });
+}
+
+export async function signIn(page: Page, email: string, password: string) {
+  await page.goto(`${BASE_URL}/sign-in`);
+  await field(page, 'Email').fill(email);
+  await field(page, 'Password').fill(password);
+  await button(page, 'Sign in').click();
+}
+
+/** The names of the navigation tabs the signed-in role sees. */
+export async function tabNames(page: Page): Promise<string[]> {
+  const tabs = page.locator('[role="tablist"]:visible [role="tab"]');
+  await tabs.first().waitFor();
+  return tabs.evaluateAll((els) => els.map((e) => e.getAttribute('aria-label') ?? ''));
+}

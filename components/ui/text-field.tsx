@@ -1,0 +1,78 @@
+import { forwardRef, useState } from 'react';
+import { StyleSheet, TextInput, View, type TextInputProps } from 'react-native';
+import { Text } from './text';
+import { colors, fonts, radius, space } from './theme';
+
+export interface TextFieldProps extends TextInputProps {
+  label: string;
+  error?: string | null;
+  hint?: string;
+  unit?: string;
+}
+
+export const TextField = forwardRef<TextInput, TextFieldProps>(function TextField({ label, error, hint, unit, style, onFocus, onBlur, ...rest }, ref) {
+  const [focused, setFocused] = useState(false);
+  return (
+    <View style={styles.wrap}>
+      <Text variant="label" nativeID={rest.nativeID ? `${rest.nativeID}-label` : undefined}>
+        {label}
+      </Text>
+      <View style={[styles.box, focused && styles.focused, !!error && styles.invalid]}>
+        <TextInput
+          ref={ref}
+          aria-label={label}
+          aria-invalid={!!error}
+          placeholderTextColor={colors.inkFaint}
+          style={[styles.input, style]}
+          onFocus={(e) => {
+            setFocused(true);
+            onFocus?.(e);
+          }}
+          onBlur={(e) => {
+            setFocused(false);
+            onBlur?.(e);
+          }}
+          {...rest}
+        />
+        {unit ? (
+          <Text variant="caption" tone="muted" style={styles.unit}>
+            {unit}
+          </Text>
+        ) : null}
+      </View>
+      {error ? (
+        <Text variant="caption" tone="danger" role="alert">
+          {error}
+        </Text>
+      ) : hint ? (
+        <Text variant="caption" tone="muted">
+          {hint}
+        </Text>
+      ) : null}
+    </View>
+  );
+});
+
+const styles = StyleSheet.create({
+  wrap: { gap: space.xs },
+  box: {
+    flexDirection: 'row',
+    alignItems: 'center',
+    borderWidth: 1,
+    borderColor: colors.lineStrong,
+    borderRadius: radius.sm,
+    backgroundColor: colors.surface,
+  },
+  focused: { borderColor: colors.cover, borderWidth: 2, marginVertical: -1, marginHorizontal: -1 },
+  invalid: { borderColor: colors.danger },
+  input: {
+    flex: 1,
+    minHeight: 44,
+    paddingHorizontal: space.md,
+    fontFamily: fonts.body,
+    fontSize: 16,
+    color: colors.ink,
+    outlineStyle: 'none',
+  } as object,
+  unit: { paddingRight: space.md },
+});

@@ -1,0 +1,105 @@
+import * as yup from 'yup';
+import { SIGNUP_ROLES } from '../roles';
+
+// One schema per request body, shared by the app's forms (Formik `validationSchema`) and the server's
+// `validate()` middleware. Numbers are strict so a string "12" is refused instead of silently coerced.
+
+export const PASSWORD_MIN_LENGTH = 10;
+
+const email = yup
+  .string()
+  .strict()
+  .trim('Email must not start or end with spaces')
+  .lowercase('Email must be in lower case')
+  .email('Email must be a valid address, like name@example.com')
+  .max(254, 'Email is too long')
+  .required('Email is required');
+
+export const registerSchema = yup
+  .object({
+    email,
+    password: yup
+      .string()
+      .strict()
+      .min(PASSWORD_MIN_LENGTH, `Password must be at least ${PASSWORD_MIN_LENGTH} characters`)
+      .max(200, 'Password is too long')
+      .required('Password is required'),
+    name: yup.string().strict().trim('Name must not start or end with spaces').min(2, 'Name is too short').max(120, 'Name is too long').required('Name is required'),
+    roles: yup
+      .array(
+        yup
+          .string()
+          .strict()
+          .oneOf([...SIGNUP_ROLES], 'Role must be grower or grazier')
+          .required('Role is required'),
+      )
+      .strict()
+      .min(1, 'Choose at least one role: grower or grazier')
+      .required('Choose at least one role: grower or grazier'),
+  })
+  .noUnknown(true, 'Unknown field: ${unknown}');
+
+export type RegisterInput = yup.InferType<typeof registerSchema>;
+
+export const loginSchema = yup.object({
+  email: yup.string().strict().email('Email must be a valid address, like name@example.com').required('Email is required'),
+  password: yup.string().strict().required('Password is required'),
+});
+
+export type LoginInput = yup.InferType<typeof loginSchema>;
+
+export const FLOCK_SPECIES = ['sheep', 'goats', 'mixed'] as const;
+export const FLOCK_CLASSES = ['dry ewes', 'ewes with lambs', 'weaned lambs', 'wethers', 'does', 'does with kids', 'mixed'] as const;
+
+const optionalText = (label: string, max: number) =>
+  yup.string().strict().trim(`${label} must not start or end with spaces`).max(max, `${label} is too long`).nullable();
+
+export const flockSchema = yup.object({
+  species: yup.string().strict().oneOf([...FLOCK_SPECIES], 'Species must be sheep, goats or mixed').required('Species is required'),
+  animalClass: yup.string().strict().oneOf([...FLOCK_CLASSES], 'Class is not one we know').required('Class is required'),
+  headCount: yup.number().strict().integer('Head count must be a whole number').min(1, 'Head count must be at least 1').max(20000, 'Head count must be at most 20 000').required('Head count is required'),
+  bodyWeightLb: yup.number().strict().min(10, 'Typical body weight must be at least 10 lb').max(400, 'Typical body weight must be at most 400 lb').required('Typical body weight is required'),
+});
+
+export const profileSchema = yup
+  .object({
+    name: yup.string().strict().trim('Name must not start or end with spaces').min(2, 'Name is too short').max(120, 'Name is too long'),
+    businessName: optionalText('Business name', 120),
+    phone: yup
+      .string()
+      .strict()
+      .matches(/^\+?[0-9 ()-]{7,20}$/, { message: 'Phone must be digits, spaces, brackets or dashes (7–20)', excludeEmptyString: true })
+      .nullable(),
+    homePlace: optionalText('Home base', 120),
+    homeLatitude: yup.number().strict().min(-90, 'Latitude must be between -90 and 90').max(90, 'Latitude must be between -90 and 90').nullable(),
+    homeLongitude: yup.number().strict().min(-180, 'Longitude must be between -180 and 180').max(180, 'Longitude must be between -180 and 180').nullable(),
+    flock: flockSchema.nullable().optional().default(undefined),
+    activeRole: yup.string().strict().oneOf([...SIGNUP_ROLES], 'Active role must be grower or grazier'),
+  })
+  .noUnknown(true, 'Unknown field: ${unknown}')
+  .test('home-base-pair', 'Give both latitude and longitude, or neither', function (value) {
+    if (!value) return true;
+    const hasLat = value.homeLatitude != null;
+    const hasLng = value.homeLongitude != null;
+    if (hasLat === hasLng) return true;
+    return this.createError({ path: hasLat ? 'homeLongitude' : 'homeLatitude', message: 'Give both latitude and longitude, or neither' });
+  });
+
+export type ProfileInput = yup.InferType<typeof profileSchema>;
+export type FlockInput = yup.InferType<typeof flockSchema>;
+
+/** What the API returns for a signed-in account (never the password hash). */
+export interface AccountView {
+  id: string;
+  email: string;
+  name: string;
+  roles: Array<'grower' | 'grazier' | 'admin'>;
+  activeRole: 'grower' | 'grazier' | null;
+  businessName: string | null;
+  phone: string | null;
+  homePlace: string | null;
+  homeLatitude: number | null;
+  homeLongitude: number | null;
+  flock: FlockInput | null;
+  createdAt: string;
+}

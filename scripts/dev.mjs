@@ -1,0 +1,22 @@
+// npm run dev: the API with reload (tsx watch) on :8080 and the Expo dev server on :8081 pointing at it.
+import { spawn } from 'node:child_process';
+import { ensureDependencies, root } from './lib.mjs';
+
+ensureDependencies();
+const apiPort = process.env.PORT ?? '8080';
+const procs = [
+  spawn('npx', ['tsx', 'watch', '--tsconfig', 'server/tsconfig.json', 'server/index.ts'], {
+    cwd: root,
+    stdio: 'inherit',
+    env: { ...process.env, PORT: apiPort, CORS_ORIGIN: 'http://localhost:8081' },
+  }),
+  spawn('npx', ['expo', 'start', '--web', '--port', '8081'], {
+    cwd: root,
+    stdio: 'inherit',
+    env: { ...process.env, EXPO_PUBLIC_API_URL: `http://localhost:${apiPort}` },
+  }),
+];
+const stop = (sig) => procs.forEach((p) => p.kill(sig));
+process.on('SIGINT', () => stop('SIGINT'));
+process.on('SIGTERM', () => stop('SIGTERM'));
+for (const p of procs) p.on('exit', () => stop('SIGTERM'));

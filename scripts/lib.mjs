@@ -1,0 +1,101 @@
+// Helpers shared by the operator scripts (start, dev, test, bench). Plain Node, no dependencies,
+// so `npm start` and `npm test` can run before `node_modules` exists and install it.
+import { spawn, spawnSync } from 'node:child_process';
+import fs from 'node:fs';
+import net from 'node:net';
+import path from 'node:path';
+import { fileURLToPath } from 'node:url';
+
+export const root = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '..');
+
+export function run(cmd, args, opts = {}) {
+  const r = spawnSync(cmd, args, { cwd: root, stdio: 'inherit', ...opts });
+  if (r.status !== 0) throw new Error(`${cmd} ${args.join(' ')} exited with ${r.status ?? r.signal}`);
+}
+
+/** npm ci when node_modules is missing or older than the lock file. */
+export function ensureDependencies() {
+  const marker = path.join(root, 'node_modules', '.package-lock.json');
+  const lock = path.join(root, 'package-lock.json');
+  if (fs.existsSync(marker) && fs.statSync(marker).mtimeMs >= fs.statSync(lock).mtimeMs) return;
+  console.log('[fieldfold] installing dependencies (npm ci)…');
+  run('npm', ['ci', '--no-audit', '--no-fund']);
+}
+
+function newestMtime(entries) {
+  let newest = 0;
+  const walk = (p) => {
+    if (!fs.existsSync(p)) return;
+    const st = fs.statSync(p);
+    if (st.isDirectory()) {
+      for (const name of fs.readdirSync(p)) if (name !== 'node_modules' && !name.startsWith('.')) walk(path.join(p, name));
+    } else newest = Math.max(newest, st.mtimeMs);
+  };
+  for (const e of entries) walk(path.join(root, e));
+  return newest;
+}
+
+/** Rebuilds `output` (a stamp file) with `build` when any of `sources` changed since the last build. */
+export function buildIfStale(label, sources, stamp, build) {
+  const stampPath = path.join(root, stamp);
+  const built = fs.existsSync(stampPath) ? fs.statSync(stampPath).mtimeMs : 0;
+  if (built >= newestMtime(sources)) return false;
+  console.log(`[fieldfold] building ${label}…`);
+  build();
+  fs.mkdirSync(path.dirname(stampPath), { recursive: true });
+  fs.writeFileSync(stampPath, new Date().toISOString());
+  return true;
+}
+
+const WEB_SOURCES = ['app', 'components', 'hooks', 'lib', 'assets', 'app.json', 'babel.config.js', 'package-lock.json'];
+const SERVER_SOURCES = ['server', 'lib', 'package-lock.json'];
+
+export function buildWeb() {
+  buildIfStale('the web app (expo export)', WEB_SOURCES, 'dist/web/.built', () =>
+    run('npx', ['expo', 'export', '--platform', 'web', '--output-dir', 'dist/web'], { env: { ...process.env, CI: '1' } }),
+  );
+}
+
+export function buildServer() {
+  buildIfStale('the server (tsc)', SERVER_SOURCES, 'build/.built', () => run('npx', ['tsc', '-p', 'server/tsconfig.build.json']));
+}
+
+export const serverEntry = path.join(root, 'build', 'server', 'index.js');
+
+export function freePort() {
+  return new Promise((resolve, reject) => {
+    const srv = net.createServer();
+    srv.unref();
+    srv.on('error', reject);
+    srv.listen(0, '127.0.0.1', () => {
+      const { port } = srv.address();
+      srv.close(() => resolve(port));
+    });
+  });
+}
+
+/** Starts the built server with `env` and resolves once /api/health answers. */
+export async function startServer(env, { quiet = false } = {}) {
+  const child = spawn(process.execPath, [serverEntry], {
+    cwd: root,
+    env: { ...process.env, ...env },
+    stdio: quiet ? ['ignore', 'pipe', 'pipe'] : 'inherit',
+  });
+  let output = '';
+  child.stdout?.on('data', (d) => (output += d));
+  child.stderr?.on('data', (d) => (output += d));
+  const url = `http://127.0.0.1:${env.PORT}/api/health`;
+  const deadline = Date.now() + 30_000;
+  while (Date.now() < deadline) {
+    if (child.exitCode !== null) throw new Error(`server exited early (${child.exitCode}):\n${output}`);
+    try {
+      const res = await fetch(url);
+      if (res.ok) return child;
+    } catch {
+      // not listening yet
+    }
+    await new Promise((r) => setTimeout(r, 150));
+  }
+  child.kill('SIGTERM');
+  throw new Error(`server did not answer ${url} within 30 s:\n${output}`);
+}

@@ -1,0 +1,71 @@
+// npm test: the one command that runs every suite on a fresh Debian machine.
+// 1. installs dependencies (npm ci) and Debian's chromium when missing;
+// 2. jest: the app project (jest-expo) and the server project (supertest on createApp, lib checks);
+// 3. builds the web app and server, starts the real server on a free port with a throw-away DATA_DIR,
+//    and runs the browser suite (playwright-core driving /usr/bin/chromium);
+// 4. prints one closing line totalling every suite: "N passed, N failed".
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import { spawnSync } from 'node:child_process';
+import { buildServer, buildWeb, ensureDependencies, freePort, root, startServer } from './lib.mjs';
+
+const CHROMIUM = '/usr/bin/chromium';
+const artifacts = path.join(root, 'artifacts');
+fs.mkdirSync(artifacts, { recursive: true });
+
+function ensureChromium() {
+  if (fs.existsSync(CHROMIUM) && fs.existsSync('/usr/bin/pdftotext')) return;
+  if (process.getuid?.() !== 0) {
+    throw new Error(`${CHROMIUM} or pdftotext is missing: run  sudo apt-get install -y chromium poppler-utils`);
+  }
+  console.log('[fieldfold] installing Debian chromium and poppler-utils…');
+  for (const args of [['update', '-qq'], ['install', '-y', '-qq', 'chromium', 'poppler-utils']]) {
+    const r = spawnSync('apt-get', args, { stdio: 'inherit', env: { ...process.env, DEBIAN_FRONTEND: 'noninteractive' } });
+    if (r.status !== 0) throw new Error(`apt-get ${args.join(' ')} failed`);
+  }
+}
+
+function jest(args, jsonName, env = {}) {
+  const out = path.join(artifacts, jsonName);
+  fs.rmSync(out, { force: true });
+  const r = spawnSync('npx', ['jest', ...args, '--json', `--outputFile=${out}`], { cwd: root, stdio: 'inherit', env: { ...process.env, ...env } });
+  let passed = 0;
+  let failed = 0;
+  if (fs.existsSync(out)) {
+    const j = JSON.parse(fs.readFileSync(out, 'utf8'));
+    passed = j.numPassedTests;
+    failed = j.numFailedTests + (j.numRuntimeErrorTestSuites ?? 0);
+  } else failed = 1;
+  if (r.status !== 0 && failed === 0) failed = 1; // jest itself failed (config, crash)
+  return { passed, failed };
+}
+
+const totals = { passed: 0, failed: 0 };
+const add = (name, r) => {
+  totals.passed += r.passed;
+  totals.failed += r.failed;
+  console.log(`[fieldfold] ${name}: ${r.passed} passed, ${r.failed} failed`);
+};
+
+let server;
+try {
+  ensureDependencies();
+  ensureChromium();
+  add('jest (app + server + lib)', jest(['--ci'], 'jest-unit.json'));
+
+  buildWeb();
+  buildServer();
+  const port = await freePort();
+  const dataDir = fs.mkdtempSync(path.join(os.tmpdir(), 'fieldfold-e2e-'));
+  server = await startServer({ PORT: String(port), HOST: '127.0.0.1', DATA_DIR: dataDir, NODE_ENV: 'test' }, { quiet: true });
+  add('browser suite (chromium)', jest(['--config', 'jest.e2e.config.js', '--runInBand', '--ci'], 'jest-e2e.json', { E2E_BASE_URL: `http://127.0.0.1:${port}` }));
+} catch (err) {
+  console.error(`[fieldfold] test run stopped: ${err.message}`);
+  totals.failed += 1;
+} finally {
+  server?.kill('SIGTERM');
+}
+
+console.log(`${totals.passed} passed, ${totals.failed} failed`);
+process.exit(totals.failed ? 1 : 0);

@@ -1,0 +1,40 @@
+import type { Server } from 'node:http';
+import { loadConfig, ConfigError } from './config/env';
+import { openDatabase } from './db/data-source';
+import { seedDemoOnce } from './db/seed/demo';
+import { createApp } from './app';
+
+// config → database (migrations) → demo seed (once) → listen → graceful shutdown.
+async function main() {
+  const config = loadConfig();
+  const dataSource = await openDatabase(config.databasePath);
+  if (config.seedDemo) {
+    const seeded = await seedDemoOnce(dataSource);
+    if (seeded) console.log('[fieldfold] demo data seeded (see README for the demo accounts)');
+  }
+  const app = createApp({ dataSource, tokens: { secret: config.tokenSecret, ttl: config.tokenTtl }, webDir: config.webDir, corsOrigin: config.corsOrigin });
+  const server: Server = app.listen(config.port, config.host, () => {
+    const addr = server.address();
+    const port = typeof addr === 'object' && addr ? addr.port : config.port;
+    console.log(`[fieldfold] listening on http://localhost:${port} (data in ${config.dataDir})`);
+  });
+
+  let closing = false;
+  const shutdown = (signal: string) => {
+    if (closing) return;
+    closing = true;
+    console.log(`[fieldfold] ${signal}: closing`);
+    server.close(async () => {
+      await dataSource.destroy();
+      process.exit(0);
+    });
+    setTimeout(() => process.exit(0), 5000).unref();
+  };
+  process.on('SIGINT', () => shutdown('SIGINT'));
+  process.on('SIGTERM', () => shutdown('SIGTERM'));
+}
+
+main().catch((err) => {
+  console.error(err instanceof ConfigError ? err.message : err);
+  process.exit(1);
+});

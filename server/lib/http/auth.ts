@@ -1,0 +1,70 @@
+import type { RequestHandler } from 'express';
+import jwt from 'jsonwebtoken';
+import type { DataSource } from 'typeorm';
+import { AppError } from '../errors/app-error';
+import { Account, Session } from '../../modules/accounts/account.entity';
+import type { Role } from '../../../lib/roles';
+
+export interface TokenClaims {
+  sub: string;
+  sid: string;
+}
+
+declare global {
+  // eslint-disable-next-line @typescript-eslint/no-namespace
+  namespace Express {
+    interface Request {
+      account?: Account;
+      sessionId?: string;
+    }
+  }
+}
+
+export function accountRoles(account: Account): Role[] {
+  return account.roles.split(',').filter(Boolean) as Role[];
+}
+
+export function hasRole(account: Account, role: Role): boolean {
+  return accountRoles(account).includes(role);
+}
+
+/** 401 unless the bearer token is valid, unexpired and its session still open. */
+export function requireAuth(ds: DataSource, secret: string): RequestHandler {
+  return async (req, _res, next) => {
+    try {
+      const header = req.get('authorization') ?? '';
+      const match = /^Bearer\s+(\S+)$/i.exec(header);
+      if (!match) throw AppError.unauthenticated();
+      let claims: TokenClaims;
+      try {
+        claims = jwt.verify(match[1], secret, { algorithms: ['HS256'] }) as TokenClaims;
+      } catch {
+        throw AppError.unauthenticated('Your sign-in has expired or is not valid. Sign in again.');
+      }
+      const session = await ds.getRepository(Session).findOneBy({ id: claims.sid, accountId: claims.sub });
+      if (!session || session.expiresAt.getTime() < Date.now()) throw AppError.unauthenticated('You have been signed out. Sign in again.');
+      const account = await ds.getRepository(Account).findOneBy({ id: claims.sub });
+      if (!account) throw AppError.unauthenticated();
+      req.account = account;
+      req.sessionId = session.id;
+      next();
+    } catch (err) {
+      next(err);
+    }
+  };
+}
+
+/** 403 for a signed-in account that lacks the role (never 401: the caller is known). */
+export function requireRole(role: Role): RequestHandler {
+  return (req, _res, next) => {
+    if (!req.account) return next(AppError.unauthenticated());
+    if (!hasRole(req.account, role)) return next(AppError.forbidden(`Only a ${role} account may do this`));
+    next();
+  };
+}
+
+/** The signed-in account, for handlers behind requireAuth. */
+export function signedIn(req: Express.Request): Account {
+  if (!req.account) throw AppError.unauthenticated();
+  return req.account;
+}

@@ -1,0 +1,116 @@
+import crypto from 'node:crypto';
+import bcrypt from 'bcryptjs';
+import jwt from 'jsonwebtoken';
+import type { DataSource } from 'typeorm';
+import { AppError } from '../../lib/errors/app-error';
+import { accountRoles } from '../../lib/http/auth';
+import { Account, Session } from './account.entity';
+import type { AccountView, LoginInput, ProfileInput, RegisterInput } from '../../../lib/schemas/account';
+import type { Role } from '../../../lib/roles';
+
+export interface TokenSettings {
+  secret: string;
+  ttl: string; // like "7d"
+}
+
+const BCRYPT_COST = 10;
+// Compared against when the email is unknown, so a wrong email costs the same time as a wrong password.
+const DUMMY_HASH = bcrypt.hashSync('not-a-real-password', BCRYPT_COST);
+
+export function toAccountView(a: Account): AccountView {
+  return {
+    id: a.id,
+    email: a.email,
+    name: a.name,
+    roles: accountRoles(a),
+    activeRole: (a.activeRole as AccountView['activeRole']) ?? null,
+    businessName: a.businessName,
+    phone: a.phone,
+    homePlace: a.homePlace,
+    homeLatitude: a.homeLatitude,
+    homeLongitude: a.homeLongitude,
+    flock:
+      a.flockSpecies && a.flockClass && a.flockHeadCount != null && a.flockBodyWeightLb != null
+        ? { species: a.flockSpecies as never, animalClass: a.flockClass as never, headCount: a.flockHeadCount, bodyWeightLb: a.flockBodyWeightLb }
+        : null,
+    createdAt: a.createdAt.toISOString(),
+  };
+}
+
+function ttlMs(ttl: string): number {
+  const n = Number(ttl.slice(0, -1));
+  const unit = ttl.slice(-1);
+  return n * { s: 1_000, m: 60_000, h: 3_600_000, d: 86_400_000 }[unit as 's' | 'm' | 'h' | 'd'];
+}
+
+async function openSession(ds: DataSource, account: Account, tokens: TokenSettings) {
+  const session = ds.getRepository(Session).create({
+    id: crypto.randomUUID(),
+    accountId: account.id,
+    expiresAt: new Date(Date.now() + ttlMs(tokens.ttl)),
+  });
+  await ds.getRepository(Session).save(session);
+  const token = jwt.sign({ sid: session.id }, tokens.secret, {
+    subject: account.id,
+    algorithm: 'HS256',
+    expiresIn: Math.floor(ttlMs(tokens.ttl) / 1000),
+  });
+  return { token, user: toAccountView(account) };
+}
+
+/** Creates an account with the sign-up roles only; `admin` comes from the seed or scripts/make-admin. */
+export async function register(ds: DataSource, input: RegisterInput, tokens: TokenSettings, extraRoles: Role[] = []) {
+  const repo = ds.getRepository(Account);
+  const email = input.email.toLowerCase();
+  if (await repo.existsBy({ email })) {
+    throw new AppError(409, 'email_taken', 'An account with this email already exists. Sign in instead.', { email: 'This email already has an account' });
+  }
+  const roles = [...new Set([...input.roles, ...extraRoles])];
+  const account = repo.create({
+    id: crypto.randomUUID(),
+    email,
+    passwordHash: await bcrypt.hash(input.password, BCRYPT_COST),
+    name: input.name,
+    roles: roles.join(','),
+    activeRole: input.roles[0] ?? null,
+  });
+  await repo.save(account);
+  return openSession(ds, account, tokens);
+}
+
+export async function login(ds: DataSource, input: LoginInput, tokens: TokenSettings) {
+  const account = await ds.getRepository(Account).findOneBy({ email: input.email.trim().toLowerCase() });
+  const ok = await bcrypt.compare(input.password, account?.passwordHash ?? DUMMY_HASH);
+  if (!account || !ok) throw new AppError(401, 'wrong_credentials', 'Email or password is not right');
+  return openSession(ds, account, tokens);
+}
+
+export async function logout(ds: DataSource, sessionId: string) {
+  await ds.getRepository(Session).delete({ id: sessionId });
+}
+
+export async function updateProfile(ds: DataSource, account: Account, input: ProfileInput) {
+  if (input.activeRole && !accountRoles(account).includes(input.activeRole)) {
+    throw AppError.badRequest('Some fields need attention', { activeRole: `This account is not a ${input.activeRole}` });
+  }
+  if (input.flock && !accountRoles(account).includes('grazier')) {
+    throw AppError.badRequest('Some fields need attention', { flock: 'Only a grazier account keeps a flock' });
+  }
+  const patch: Partial<Account> = {};
+  if (input.name !== undefined) patch.name = input.name;
+  if (input.businessName !== undefined) patch.businessName = input.businessName || null;
+  if (input.phone !== undefined) patch.phone = input.phone || null;
+  if (input.homePlace !== undefined) patch.homePlace = input.homePlace || null;
+  if (input.homeLatitude !== undefined) patch.homeLatitude = input.homeLatitude;
+  if (input.homeLongitude !== undefined) patch.homeLongitude = input.homeLongitude;
+  if (input.activeRole !== undefined) patch.activeRole = input.activeRole;
+  if (input.flock !== undefined) {
+    patch.flockSpecies = input.flock?.species ?? null;
+    patch.flockClass = input.flock?.animalClass ?? null;
+    patch.flockHeadCount = input.flock?.headCount ?? null;
+    patch.flockBodyWeightLb = input.flock?.bodyWeightLb ?? null;
+  }
+  Object.assign(account, patch);
+  await ds.getRepository(Account).save(account);
+  return toAccountView(account);
+}
