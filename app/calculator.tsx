@@ -1,10 +1,27 @@
+import { Link, Stack } from 'expo-router';
 import { Screen, Text } from '@/components/ui';
+import { ForageCalculator } from '@/components/calculator/forage-calculator';
+import { useSession } from '@/hooks/auth/session';
 
-// The public forage and capacity calculator (issue 3) replaces this placeholder.
+// Public: reachable signed out, and linked from every role's home.
 export default function CalculatorScreen() {
+  const { status } = useSession();
   return (
-    <Screen title="Forage calculator" narrow>
-      <Text tone="muted">Coming with the grazing arithmetic.</Text>
-    </Screen>
+    <>
+      <Stack.Screen options={{ title: 'Forage calculator · Fieldfold' }} />
+      <Screen
+        title="Forage calculator"
+        subtitle="Standing forage, a safe take, and the head-days a block carries."
+        actions={
+          <Link href={status === 'signed-in' ? '/' : '/sign-in'}>
+            <Text tone="cover" variant="bodyStrong">
+              {status === 'signed-in' ? '← Back to Fieldfold' : 'Sign in to Fieldfold →'}
+            </Text>
+          </Link>
+        }
+      >
+        <ForageCalculator />
+      </Screen>
+    </>
   );
 }

@@ -12,7 +12,7 @@ beforeEach(() => {
 
 describe('SignUpForm', () => {
   it('shows the shared schema messages beside the fields and sends nothing when the form is empty', async () => {
-    const { queryClient } = renderWithProviders(<SignUpForm />);
+    const { queryClient } = await renderWithProviders(<SignUpForm />);
     fireEvent.press(screen.getByRole('button', { name: 'Create account' }));
     expect(await screen.findByText('Email is required')).toBeTruthy();
     expect(screen.getByText('Password is required')).toBeTruthy();
@@ -28,7 +28,7 @@ describe('SignUpForm', () => {
       status: 409,
       json: async () => ({ error: { code: 'email_taken', message: 'An account with this email already exists. Sign in instead.', fields: { email: 'This email already has an account' } } }),
     });
-    const { queryClient } = renderWithProviders(<SignUpForm />);
+    const { queryClient } = await renderWithProviders(<SignUpForm />);
     fireEvent.changeText(screen.getByLabelText('Your name'), 'Pia Lindqvist');
     fireEvent.changeText(screen.getByLabelText('Email'), 'pia@orchard.example');
     fireEvent.changeText(screen.getByLabelText('Password'), 'a-long-orchard-password');

@@ -1,11 +1,11 @@
 import type { ReactElement } from 'react';
 import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
-import { render } from '@testing-library/react-native';
+import { act, render } from '@testing-library/react-native';
 import { SafeAreaProvider } from 'react-native-safe-area-context';
 import { SessionProvider } from '@/hooks/auth/session';
 
 /** Renders a component inside the app's providers, with a query client that neither retries nor leaves GC timers behind. */
-export function renderWithProviders(ui: ReactElement) {
+export async function renderWithProviders(ui: ReactElement) {
   const queryClient = new QueryClient({ defaultOptions: { queries: { retry: false, gcTime: Infinity } } });
   const utils = render(
     <SafeAreaProvider initialMetrics={{ frame: { x: 0, y: 0, width: 390, height: 844 }, insets: { top: 0, left: 0, right: 0, bottom: 0 } }}>
@@ -14,5 +14,7 @@ export function renderWithProviders(ui: ReactElement) {
       </QueryClientProvider>
     </SafeAreaProvider>,
   );
+  // Let the session provider finish restoring its token before the test acts.
+  await act(async () => {});
   return { ...utils, queryClient };
 }

@@ -1,8 +1,8 @@
-import { Pressable, StyleSheet, View } from 'react-native';
+import { StyleSheet, View } from 'react-native';
 import { useField } from 'formik';
 import { FLOCK_CLASSES, FLOCK_SPECIES } from '@/lib/schemas/account';
-import { Text } from '@/components/ui';
-import { colors, radius, space } from '@/components/ui/theme';
+import { Chip, Text } from '@/components/ui';
+import { space } from '@/components/ui/theme';
 import { FormTextField } from '@/components/form/form-text-field';
 
 function Choice<T extends string>({ name, label, options }: { name: string; label: string; options: readonly T[] }) {
@@ -12,11 +12,7 @@ function Choice<T extends string>({ name, label, options }: { name: string; labe
       <Text variant="label">{label}</Text>
       <View style={styles.chips}>
         {options.map((o) => (
-          <Pressable key={o} role="radio" aria-checked={field.value === o} onPress={() => helpers.setValue(o)} style={[styles.chip, field.value === o && styles.chipOn]}>
-            <Text variant="caption" tone={field.value === o ? 'cover' : 'ink'}>
-              {o}
-            </Text>
-          </Pressable>
+          <Chip key={o} label={o} on={field.value === o} onPress={() => helpers.setValue(o)} />
         ))}
       </View>
       {meta.error && meta.touched ? (
@@ -48,6 +44,4 @@ export function FlockFields() {
 
 const styles = StyleSheet.create({
   chips: { flexDirection: 'row', flexWrap: 'wrap', gap: space.xs },
-  chip: { paddingHorizontal: space.md, paddingVertical: space.xs + 2, borderRadius: radius.pill, borderWidth: 1, borderColor: colors.lineStrong, backgroundColor: colors.surface },
-  chipOn: { borderColor: colors.cover, backgroundColor: colors.coverWash },
 });

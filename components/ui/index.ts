@@ -7,3 +7,5 @@ export { Notice } from './notice';
 export { LoadingState, ErrorState, EmptyState } from './states';
 export * from './theme';
 export { TwoPane } from './two-pane';
+export { Segmented } from './segmented';
+export { Chip } from './chip';

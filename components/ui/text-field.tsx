@@ -67,6 +67,7 @@ const styles = StyleSheet.create({
   invalid: { borderColor: colors.danger },
   input: {
     flex: 1,
+    minWidth: 0, // web inputs have an intrinsic width; without this a unit label is pushed out of a narrow box
     minHeight: 44,
     paddingHorizontal: space.md,
     fontFamily: fonts.body,

@@ -1,5 +1,6 @@
 import * as yup from 'yup';
 import { SIGNUP_ROLES } from '../roles';
+import { rejectUnknown } from './reject-unknown';
 
 // One schema per request body, shared by the app's forms (Formik `validationSchema`) and the server's
 // `validate()` middleware. Numbers are strict so a string "12" is refused instead of silently coerced.
@@ -15,8 +16,8 @@ const email = yup
   .max(254, 'Email is too long')
   .required('Email is required');
 
-export const registerSchema = yup
-  .object({
+export const registerSchema = rejectUnknown(
+  yup.object({
     email,
     password: yup
       .string()
@@ -36,8 +37,8 @@ export const registerSchema = yup
       .strict()
       .min(1, 'Choose at least one role: grower or grazier')
       .required('Choose at least one role: grower or grazier'),
-  })
-  .noUnknown(true, 'Unknown field: ${unknown}');
+  }),
+);
 
 export type RegisterInput = yup.InferType<typeof registerSchema>;
 
@@ -61,8 +62,8 @@ export const flockSchema = yup.object({
   bodyWeightLb: yup.number().strict().min(10, 'Typical body weight must be at least 10 lb').max(400, 'Typical body weight must be at most 400 lb').required('Typical body weight is required'),
 });
 
-export const profileSchema = yup
-  .object({
+export const profileSchema = rejectUnknown(
+  yup.object({
     name: yup.string().strict().trim('Name must not start or end with spaces').min(2, 'Name is too short').max(120, 'Name is too long'),
     businessName: optionalText('Business name', 120),
     phone: yup
@@ -75,9 +76,8 @@ export const profileSchema = yup
     homeLongitude: yup.number().strict().min(-180, 'Longitude must be between -180 and 180').max(180, 'Longitude must be between -180 and 180').nullable(),
     flock: flockSchema.nullable().optional().default(undefined),
     activeRole: yup.string().strict().oneOf([...SIGNUP_ROLES], 'Active role must be grower or grazier'),
-  })
-  .noUnknown(true, 'Unknown field: ${unknown}')
-  .test('home-base-pair', 'Give both latitude and longitude, or neither', function (value) {
+  }),
+).test('home-base-pair', 'Give both latitude and longitude, or neither', function (value) {
     if (!value) return true;
     const hasLat = value.homeLatitude != null;
     const hasLng = value.homeLongitude != null;

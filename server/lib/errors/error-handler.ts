@@ -2,6 +2,7 @@ import type { ErrorRequestHandler, RequestHandler } from 'express';
 import { ValidationError } from 'yup';
 import { AppError } from './app-error';
 import { fieldErrorsFromYup } from '../http/validate';
+import { GrazingInputError } from '../../../lib/grazing/errors';
 
 export const notFoundHandler: RequestHandler = (req, _res, next) => {
   next(new AppError(404, 'not_found', `No route for ${req.method} ${req.path}`));
@@ -12,6 +13,7 @@ export function errorHandler(log: (msg: string) => void = console.error): ErrorR
   return (err, _req, res, _next) => {
     let e: AppError;
     if (err instanceof AppError) e = err;
+    else if (err instanceof GrazingInputError) e = AppError.badRequest(err.message, { [err.field]: err.message });
     else if (err instanceof ValidationError) e = AppError.badRequest('Some fields need attention', fieldErrorsFromYup(err));
     else if (err?.type === 'entity.parse.failed') e = new AppError(400, 'invalid_json', 'The request body is not valid JSON');
     else if (err?.type === 'entity.too.large') e = new AppError(413, 'too_large', 'The request body is too large');
