@@ -88,5 +88,7 @@ try {
 } finally {
   server.kill('SIGTERM');
 }
-const dbSize = fs.statSync(path.join(dataDir, 'fieldfold.sqlite')).size;
-row('demo database on disk', `${dbSize.toLocaleString('en-US')} B`);
+// After a clean shutdown the WAL is checkpointed into the main file; count both in case it was not.
+await new Promise((r) => setTimeout(r, 500));
+const dbSize = ['fieldfold.sqlite', 'fieldfold.sqlite-wal'].map((f) => path.join(dataDir, f)).filter((f) => fs.existsSync(f)).reduce((s, f) => s + fs.statSync(f).size, 0);
+row('demo database on disk (db + WAL)', `${dbSize.toLocaleString('en-US')} B`);
