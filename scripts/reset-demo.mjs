@@ -1,8 +1,11 @@
-// npm run seed:reset: deletes the local database (DATA_DIR, default ./data) so the next start migrates and seeds afresh.
+// npm run seed:reset: deletes the local database and its uploads (DATA_DIR, default ./data) so the next start
+// migrates and seeds afresh. The token secret is kept, so nothing else needs configuring.
 import fs from 'node:fs';
 import path from 'node:path';
 import { root } from './lib.mjs';
 
 const dataDir = path.resolve(root, process.env.DATA_DIR ?? 'data');
 for (const f of ['fieldfold.sqlite', 'fieldfold.sqlite-wal', 'fieldfold.sqlite-shm']) fs.rmSync(path.join(dataDir, f), { force: true });
+// Uploaded photos belong to the database's blocks: they go with it.
+fs.rmSync(path.join(dataDir, 'uploads'), { recursive: true, force: true });
 console.log(`[fieldfold] demo data reset in ${dataDir}; the next npm start seeds the Calder Valley district again.`);

@@ -1,8 +1,10 @@
 import type { Server } from 'node:http';
+import path from 'node:path';
 import { loadConfig, ConfigError } from './config/env';
 import { openDatabase } from './db/data-source';
 import { seedDemoOnce } from './db/seed/demo';
 import { createApp } from './app';
+import { MemoryMail } from './lib/mail/memory-mail';
 
 // config → database (migrations) → demo seed (once) → listen → graceful shutdown.
 async function main() {
@@ -12,7 +14,16 @@ async function main() {
     const seeded = await seedDemoOnce(dataSource);
     if (seeded) console.log('[fieldfold] demo data seeded (see README for the demo accounts)');
   }
-  const app = createApp({ dataSource, tokens: { secret: config.tokenSecret, ttl: config.tokenTtl }, webDir: config.webDir, corsOrigin: config.corsOrigin });
+  // Until the SMTP sink arrives, mail stays in memory and each message is announced by subject only.
+  const mail = new MemoryMail((msg) => console.log(`[mail] ${msg.subject}`), 500);
+  const app = createApp({
+    dataSource,
+    tokens: { secret: config.tokenSecret, ttl: config.tokenTtl },
+    webDir: config.webDir,
+    corsOrigin: config.corsOrigin,
+    uploadsDir: path.join(config.dataDir, 'uploads'),
+    mail,
+  });
   const server: Server = app.listen(config.port, config.host, () => {
     const addr = server.address();
     const port = typeof addr === 'object' && addr ? addr.port : config.port;

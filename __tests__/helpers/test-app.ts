@@ -1,14 +1,38 @@
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
 import request from 'supertest';
 import type { DataSource } from 'typeorm';
 import { openDatabase } from '../../server/db/data-source';
 import { createApp } from '../../server/app';
+import { MemoryMail } from '../../server/lib/mail/memory-mail';
 
 export const TEST_TOKENS = { secret: 'test-secret-that-is-long-enough-to-sign-tokens', ttl: '1h' };
 
+/** "Now" in the tests unless a test moves the clock: 1 Dec 2026, noon in California (blocks' default zone). */
+export const TEST_NOW = Date.parse('2026-12-01T12:00:00-08:00');
+
+export interface TestAppOptions {
+  /** Collects log lines (errors the app logged, mail failures) instead of dropping them. */
+  log?: (msg: string) => void;
+  /** A mail adapter other than the in-memory outbox (e.g. one that fails). */
+  mail?: import('../../server/lib/mail/mail-port').MailPort;
+}
+
 /** A fresh in-memory SQLite that ran the real migrations, and the real app on top of it. */
-export async function makeTestApp() {
+export async function makeTestApp(options: TestAppOptions = {}) {
   const dataSource = await openDatabase(':memory:');
-  const app = createApp({ dataSource, tokens: TEST_TOKENS, log: () => {} });
+  const uploadsDir = fs.mkdtempSync(path.join(os.tmpdir(), 'fieldfold-uploads-'));
+  const mail = new MemoryMail();
+  const clock = { now: TEST_NOW };
+  const app = createApp({
+    dataSource,
+    tokens: TEST_TOKENS,
+    log: options.log ?? (() => {}),
+    uploadsDir,
+    mail: options.mail ?? mail,
+    now: () => clock.now,
+  });
   let n = 0;
   async function signUp(roles: Array<'grower' | 'grazier'>, name = 'Test Person') {
     n += 1;
@@ -17,5 +41,20 @@ export async function makeTestApp() {
     if (res.status !== 201) throw new Error(`sign-up failed: ${res.status} ${JSON.stringify(res.body)}`);
     return { token: res.body.token as string, user: res.body.user, email, auth: { Authorization: `Bearer ${res.body.token}` } };
   }
-  return { app, dataSource, signUp, close: () => (dataSource as DataSource).destroy() };
+  return {
+    app,
+    dataSource,
+    signUp,
+    /** Everything the app mailed, oldest first. */
+    mail,
+    uploadsDir,
+    /** Moves the app's clock (ISO instant with offset). */
+    setNow: (iso: string) => {
+      clock.now = Date.parse(iso);
+    },
+    close: async () => {
+      await (dataSource as DataSource).destroy();
+      fs.rmSync(uploadsDir, { recursive: true, force: true });
+    },
+  };
 }

@@ -168,3 +168,13 @@ describe('GET /api/health and unknown routes', () => {
     expect(res.body.error.code).toBe('not_found');
   });
 });
+
+describe('Concurrent sign-ups', () => {
+  it('When two sign-ups race for one email, then exactly one account is created and the other gets 409', async () => {
+    const body = { email: 'race@test.example', password: 'a-good-password', name: 'Racer', roles: ['grower'] };
+    const [a, b] = await Promise.all([request(t.app).post('/api/auth/register').send(body), request(t.app).post('/api/auth/register').send(body)]);
+    expect([a.status, b.status].sort()).toEqual([201, 409]);
+    const rows = await t.dataSource.query(`SELECT COUNT(*) AS n FROM accounts WHERE email = 'race@test.example'`);
+    expect(rows[0].n).toBe(1);
+  });
+});

@@ -10,6 +10,7 @@ import { ForageInputs } from './forage-inputs';
 import { BlockInputs, FlockInputs } from './herd-inputs';
 import { CalculatorResults, CalculatorSummary } from './calculator-results';
 import { useLayout } from '@/hooks/use-layout';
+import { nestErrors } from '@/components/form/nest-errors';
 
 // An invented example so the figures show at once; every field is the user's to change.
 export const EXAMPLE_VALUES: CalculatorValues = {
@@ -38,7 +39,7 @@ function Body() {
   // The shared schemas' messages go beside the inputs as the user types.
   const errorKey = JSON.stringify(result.errors);
   const { isWide } = useLayout();
-  useEffect(() => setErrors(result.errors as never), [errorKey]); // eslint-disable-line react-hooks/exhaustive-deps
+  useEffect(() => setErrors(nestErrors(result.errors) as never), [errorKey]); // eslint-disable-line react-hooks/exhaustive-deps
   return (
     <TwoPane
       main={

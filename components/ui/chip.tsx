@@ -14,6 +14,6 @@ export function Chip({ label, on, onPress }: { label: string; on?: boolean; onPr
 }
 
 const styles = StyleSheet.create({
-  chip: { paddingHorizontal: space.md, paddingVertical: space.xs + 2, borderRadius: radius.pill, borderWidth: 1, borderColor: colors.lineStrong, backgroundColor: colors.surface },
+  chip: { alignSelf: 'flex-start', paddingHorizontal: space.md, paddingVertical: space.xs + 2, borderRadius: radius.pill, borderWidth: 1, borderColor: colors.lineStrong, backgroundColor: colors.surface },
   on: { borderColor: colors.cover, backgroundColor: colors.coverWash },
 });

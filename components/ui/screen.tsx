@@ -1,5 +1,6 @@
 import type { ReactNode } from 'react';
-import { ScrollView, StyleSheet, View } from 'react-native';
+import { Pressable, ScrollView, StyleSheet, View } from 'react-native';
+import { useRouter, type Href } from 'expo-router';
 import { useSafeAreaInsets } from 'react-native-safe-area-context';
 import { useLayout } from '@/hooks/use-layout';
 import { Text } from './text';
@@ -13,13 +14,23 @@ export interface ScreenProps {
   /** Narrow forms read better at a measure than spread across a laptop screen. */
   narrow?: boolean;
   scroll?: boolean;
+  /** Detail screens sit outside the tabs: a way back to where they belong. */
+  back?: { label: string; href: Href };
 }
 
-export function Screen({ title, subtitle, actions, children, narrow, scroll = true }: ScreenProps) {
+export function Screen({ title, subtitle, actions, children, narrow, scroll = true, back }: ScreenProps) {
+  const router = useRouter();
   const { isMedium } = useLayout();
   const insets = useSafeAreaInsets();
   const body = (
     <View style={[styles.inner, { maxWidth: narrow ? 560 : contentMaxWidth, paddingHorizontal: isMedium ? space.xxl : space.lg, paddingTop: Math.max(insets.top, space.lg) }]}>
+      {back ? (
+        <Pressable role="link" onPress={() => (router.canGoBack() ? router.back() : router.replace(back.href))} style={styles.back}>
+          <Text variant="label" tone="cover">
+            ← {back.label}
+          </Text>
+        </Pressable>
+      ) : null}
       {title ? (
         <View style={[styles.header, isMedium && styles.headerWide]}>
           <View style={styles.headerText}>
@@ -45,6 +56,7 @@ const styles = StyleSheet.create({
   content: { flexGrow: 1 },
   inner: { width: '100%', alignSelf: 'center', gap: space.lg },
   header: { gap: space.md, marginBottom: space.xs },
+  back: { alignSelf: 'flex-start', paddingVertical: space.xs },
   headerWide: { flexDirection: 'row', alignItems: 'flex-end', justifyContent: 'space-between' },
   headerText: { gap: space.xs, flexShrink: 1 },
   actions: { flexDirection: 'row', gap: space.sm, flexWrap: 'wrap' },

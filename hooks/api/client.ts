@@ -31,18 +31,23 @@ export function apiUrl(path: string) {
   return `${BASE_URL}/api${path}`;
 }
 
-export async function api<T>(path: string, init: { method?: string; body?: unknown; token?: string | null } = {}): Promise<T> {
+export async function api<T>(
+  path: string,
+  init: { method?: string; body?: unknown; form?: FormData; token?: string | null } = {},
+): Promise<T> {
   const token = init.token === undefined ? currentToken : init.token;
+  const json = init.body !== undefined;
   let res: Response;
   try {
     res = await fetch(apiUrl(path), {
-      method: init.method ?? (init.body === undefined ? 'GET' : 'POST'),
+      method: init.method ?? (json || init.form ? 'POST' : 'GET'),
       headers: {
         Accept: 'application/json',
-        ...(init.body !== undefined ? { 'Content-Type': 'application/json' } : {}),
+        // A multipart body sets its own Content-Type with the boundary.
+        ...(json ? { 'Content-Type': 'application/json' } : {}),
         ...(token ? { Authorization: `Bearer ${token}` } : {}),
       },
-      body: init.body === undefined ? undefined : JSON.stringify(init.body),
+      body: init.form ?? (json ? JSON.stringify(init.body) : undefined),
     });
   } catch {
     throw new ApiError(0, 'offline', 'Fieldfold could not be reached. Check the connection and try again.');
@@ -55,4 +60,13 @@ export async function api<T>(path: string, init: { method?: string; body?: unkno
     throw new ApiError(res.status, e?.code ?? 'http_error', e?.message ?? `The server answered ${res.status}`, e?.fields ?? {});
   }
   return data as T;
+}
+
+/** Query text from a filter object: undefined, null and '' are left out. */
+export function queryString(params: Record<string, string | number | undefined | null>): string {
+  const q = Object.entries(params)
+    .filter(([, v]) => v !== undefined && v !== null && v !== '')
+    .map(([k, v]) => `${encodeURIComponent(k)}=${encodeURIComponent(String(v))}`)
+    .join('&');
+  return q ? `?${q}` : '';
 }

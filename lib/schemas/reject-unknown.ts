@@ -1,13 +1,12 @@
 import * as yup from 'yup';
 
-// Unknown fields are refused, each at its own path ("timezone" → "Unknown field: timezone"), because a
-// misspelt optional field (timeZone, feesCents) would otherwise silently change the answer. yup's own
-// `noUnknown()` cannot do this: in yup 1.7 it also makes the cast drop unknown keys before its test runs,
-// so it never fails. `rejectUnknown` tests the cast value without asking the cast to strip, so it fails
-// under `stripUnknown: false` (the server's setting); a caller that passes `stripUnknown: true` asks for
-// unknown keys to be dropped instead, and gets that.
-// (It deliberately avoids `this.originalValue`: yup 1.7 writes it into the options object, so a caller
-// reusing one options object across validations would see a previous body there.)
+// Unknown fields are refused, each at its own path ("sprayRecords[0].prodcut" → "Unknown field: prodcut"),
+// because a misspelt optional field (timeZone, feesCents) would otherwise silently change the answer.
+// yup's own noUnknown() reports every unknown key of an object under the object's path in one message;
+// this names each one where a form can show it. It tests the value without asking the cast to strip, so
+// it fails under `stripUnknown: false` (the server's setting).
+// (It avoids `this.originalValue`: yup 1.7 writes it into the options object, so a caller reusing one
+// options object across validations would see a previous body there.)
 
 export function rejectUnknown<S extends yup.AnyObjectSchema>(schema: S): S {
   const known = new Set(Object.keys(schema.fields));

@@ -1,10 +1,17 @@
 import 'reflect-metadata';
 import { DataSource } from 'typeorm';
 import { Account, Session } from '../modules/accounts/account.entity';
+import { Block } from '../modules/blocks/block.entity';
+import { BlockPhoto } from '../modules/blocks/block-photo.entity';
+import { Bid } from '../modules/bids/bid.entity';
+import { Contract } from '../modules/contracts/contract.entity';
 import { Accounts1764600000000 } from './migrations/1764600000000-accounts';
+import { Blocks1764700000000 } from './migrations/1764700000000-blocks';
+import { Bids1764700100000 } from './migrations/1764700100000-bids';
+import { Contracts1764700200000 } from './migrations/1764700200000-contracts';
 
-export const entities = [Account, Session];
-export const migrations = [Accounts1764600000000];
+export const entities = [Account, Session, Block, BlockPhoto, Bid, Contract];
+export const migrations = [Accounts1764600000000, Blocks1764700000000, Bids1764700100000, Contracts1764700200000];
 
 /** `database` is a file path, or ':memory:' for tests. Migrations only; never synchronize. */
 export function createDataSource(database: string): DataSource {

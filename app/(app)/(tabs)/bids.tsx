@@ -1,9 +1,10 @@
-import { EmptyState, Screen } from '@/components/ui';
+import { Screen } from '@/components/ui';
+import { MyBidList } from '@/components/bids/my-bid-list';
 
 export default function MyBidsScreen() {
   return (
-    <Screen title="My bids" subtitle="Bids you have placed on open blocks">
-      <EmptyState title="No bids yet">Open a block from Find grazing and bid head-days, per acre or a flat price for the job.</EmptyState>
+    <Screen title="My bids" subtitle="Your bids on growers' blocks: live until the grower awards the block">
+      <MyBidList />
     </Screen>
   );
 }

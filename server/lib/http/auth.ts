@@ -41,6 +41,8 @@ export function requireAuth(ds: DataSource, secret: string): RequestHandler {
       } catch {
         throw AppError.unauthenticated('Your sign-in has expired or is not valid. Sign in again.');
       }
+      // Other tokens signed with the same secret (photo access links) carry no session: never a sign-in.
+      if (typeof claims.sid !== 'string' || typeof claims.sub !== 'string') throw AppError.unauthenticated('Your sign-in is not valid. Sign in again.');
       const session = await ds.getRepository(Session).findOneBy({ id: claims.sid, accountId: claims.sub });
       if (!session || session.expiresAt.getTime() < Date.now()) throw AppError.unauthenticated('You have been signed out. Sign in again.');
       const account = await ds.getRepository(Account).findOneBy({ id: claims.sub });

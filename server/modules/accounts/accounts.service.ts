@@ -5,6 +5,7 @@ import type { DataSource } from 'typeorm';
 import { AppError } from '../../lib/errors/app-error';
 import { accountRoles } from '../../lib/http/auth';
 import { Account, Session } from './account.entity';
+import { inTransaction } from '../../lib/db/transaction';
 import type { AccountView, LoginInput, ProfileInput, RegisterInput } from '../../../lib/schemas/account';
 import type { Role } from '../../../lib/roles';
 
@@ -49,7 +50,7 @@ async function openSession(ds: DataSource, account: Account, tokens: TokenSettin
     accountId: account.id,
     expiresAt: new Date(Date.now() + ttlMs(tokens.ttl)),
   });
-  await ds.getRepository(Session).save(session);
+  await inTransaction(ds, (tx) => tx.getRepository(Session).save(session));
   const token = jwt.sign({ sid: session.id }, tokens.secret, {
     subject: account.id,
     algorithm: 'HS256',
@@ -60,21 +61,19 @@ async function openSession(ds: DataSource, account: Account, tokens: TokenSettin
 
 /** Creates an account with the sign-up roles only; `admin` comes from the seed or scripts/make-admin. */
 export async function register(ds: DataSource, input: RegisterInput, tokens: TokenSettings, extraRoles: Role[] = []) {
-  const repo = ds.getRepository(Account);
   const email = input.email.toLowerCase();
-  if (await repo.existsBy({ email })) {
-    throw new AppError(409, 'email_taken', 'An account with this email already exists. Sign in instead.', { email: 'This email already has an account' });
-  }
   const roles = [...new Set([...input.roles, ...extraRoles])];
-  const account = repo.create({
-    id: crypto.randomUUID(),
-    email,
-    passwordHash: await bcrypt.hash(input.password, BCRYPT_COST),
-    name: input.name,
-    roles: roles.join(','),
-    activeRole: input.roles[0] ?? null,
+  const passwordHash = await bcrypt.hash(input.password, BCRYPT_COST);
+  // Check and insert in one queued transaction: two sign-ups racing for one email give one account and one 409.
+  const account = await inTransaction(ds, async (tx) => {
+    const repo = tx.getRepository(Account);
+    if (await repo.existsBy({ email })) {
+      throw new AppError(409, 'email_taken', 'An account with this email already exists. Sign in instead.', { email: 'This email already has an account' });
+    }
+    return repo.save(
+      repo.create({ id: crypto.randomUUID(), email, passwordHash, name: input.name, roles: roles.join(','), activeRole: input.roles[0] ?? null }),
+    );
   });
-  await repo.save(account);
   return openSession(ds, account, tokens);
 }
 
@@ -86,7 +85,7 @@ export async function login(ds: DataSource, input: LoginInput, tokens: TokenSett
 }
 
 export async function logout(ds: DataSource, sessionId: string) {
-  await ds.getRepository(Session).delete({ id: sessionId });
+  await inTransaction(ds, (tx) => tx.getRepository(Session).delete({ id: sessionId }));
 }
 
 export async function updateProfile(ds: DataSource, account: Account, input: ProfileInput) {
@@ -111,6 +110,6 @@ export async function updateProfile(ds: DataSource, account: Account, input: Pro
     patch.flockBodyWeightLb = input.flock?.bodyWeightLb ?? null;
   }
   Object.assign(account, patch);
-  await ds.getRepository(Account).save(account);
+  await inTransaction(ds, (tx) => tx.getRepository(Account).save(account));
   return toAccountView(account);
 }

@@ -1,0 +1,26 @@
+// Outgoing mail as a port: the services say what to send, an adapter sends it. The in-memory adapter
+// (memory-mail.ts) serves development and tests; the SMTP adapter comes with the payments issue.
+
+export interface MailMessage {
+  to: string;
+  subject: string;
+  text: string;
+}
+
+export interface MailPort {
+  send(msg: MailMessage): Promise<void>;
+}
+
+/**
+ * Sends each message on its own, after the database work is committed: a mail server that is down must
+ * never undo an award or a bid. Failures are logged (subject only: addresses and bodies stay out of logs).
+ */
+export async function sendAll(mail: MailPort, messages: MailMessage[], log: (msg: string) => void): Promise<void> {
+  for (const msg of messages) {
+    try {
+      await mail.send(msg);
+    } catch (err) {
+      log(`[mail] could not send "${msg.subject}": ${err instanceof Error ? err.message : String(err)}`);
+    }
+  }
+}

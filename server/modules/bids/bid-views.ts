@@ -1,0 +1,81 @@
+import { In, type EntityManager } from 'typeorm';
+import { Account } from '../accounts/account.entity';
+import { Block } from '../blocks/block.entity';
+import { Contract } from '../contracts/contract.entity';
+import { blockSummary } from '../blocks/block-views';
+import type { Bid } from './bid.entity';
+import { normaliseBid } from '../../../lib/grazing/bid-compare';
+import { stayConflicts } from '../../../lib/grazing/graze-window';
+import { cautionsForBlock } from '../../../lib/grazing/safety';
+import type { BidInput, BidView } from '../../../lib/schemas/bid';
+
+/** Completed contracts per grazier: their record on Fieldfold. */
+export async function completedContracts(em: EntityManager, grazierIds: string[]): Promise<Map<string, number>> {
+  if (grazierIds.length === 0) return new Map();
+  const rows: Array<{ grazierId: string; n: number }> = await em
+    .createQueryBuilder(Contract, 'c')
+    .select('c.grazier_id', 'grazierId')
+    .addSelect('COUNT(*)', 'n')
+    .where("c.status = 'completed'")
+    .andWhere('c.grazier_id IN (:...ids)', { ids: grazierIds })
+    .groupBy('c.grazier_id')
+    .getRawMany();
+  return new Map(rows.map((r) => [r.grazierId, Number(r.n)]));
+}
+
+export function bidInputOf(b: Bid): BidInput {
+  return {
+    basis: b.basis,
+    rate: b.rate,
+    headCount: b.headCount,
+    species: b.species,
+    animalClass: b.animalClass,
+    bodyWeightLb: b.bodyWeightLb,
+    startDate: b.startDate,
+    endDate: b.endDate,
+    services: b.services,
+    note: b.note,
+  };
+}
+
+/**
+ * Bids as the API returns them, each normalised against its block as it stands now (lib/grazing/bid-compare),
+ * with the grazier's record and, for a live bid, the block rules it no longer fits.
+ */
+export async function bidViews(em: EntityManager, bids: Bid[]): Promise<BidView[]> {
+  if (bids.length === 0) return [];
+  const blockIds = [...new Set(bids.map((b) => b.blockId))];
+  const grazierIds = [...new Set(bids.map((b) => b.grazierId))];
+  const [blocks, graziers, records] = await Promise.all([
+    em.findBy(Block, { id: In(blockIds) }),
+    em.findBy(Account, { id: In(grazierIds) }),
+    completedContracts(em, grazierIds),
+  ]);
+  const blockById = new Map(blocks.map((b) => [b.id, b]));
+  const grazierById = new Map(graziers.map((g) => [g.id, g]));
+  return bids.map((bid) => {
+    const block = blockById.get(bid.blockId)!;
+    const grazier = grazierById.get(bid.grazierId);
+    return {
+      id: bid.id,
+      blockId: bid.blockId,
+      status: bid.status,
+      grazier: {
+        id: bid.grazierId,
+        name: grazier?.name ?? 'Unknown grazier',
+        businessName: grazier?.businessName ?? null,
+        completedContracts: records.get(bid.grazierId) ?? 0,
+      },
+      ...bidInputOf(bid),
+      services: bid.services,
+      note: bid.note,
+      normalised: normaliseBid(bid, block),
+      conflicts: bid.status === 'live' ? stayConflicts(bid, block) : [],
+      cautions: cautionsForBlock(block, { species: bid.species }),
+      block: blockSummary(block),
+      createdAt: bid.createdAt.toISOString(),
+      updatedAt: bid.updatedAt.toISOString(),
+      decidedAt: bid.decidedAt?.toISOString() ?? null,
+    };
+  });
+}

@@ -1,0 +1,268 @@
+import crypto from 'node:crypto';
+import type { EntityManager } from 'typeorm';
+import { AppError } from '../../lib/errors/app-error';
+import { check } from '../../lib/http/validate';
+import { inTransaction } from '../../lib/db/transaction';
+import { sendAll, type MailMessage } from '../../lib/mail/mail-port';
+import type { ServiceContext } from '../../lib/service-context';
+import { Account } from '../accounts/account.entity';
+import { Block } from '../blocks/block.entity';
+import { assertCanBidOn, assertCanViewBlock, canViewBlock, isOwner } from '../blocks/blocks.policy';
+import { blockFacts } from '../blocks/blocks.service';
+import { contractViews, createContract } from '../contracts/contracts.service';
+import { Bid } from './bid.entity';
+import { assertAwardable, assertAwarder, assertBidder, assertBidLive, assertBlockOpen, assertBlockTakesAward, assertCanSeeBid, assertStayFits } from './bids.policy';
+import { bidInputOf, bidViews } from './bid-views';
+import { stayConflicts } from '../../../lib/grazing/graze-window';
+import { normaliseBid } from '../../../lib/grazing/bid-compare';
+import { GrazingInputError } from '../../../lib/grazing/errors';
+import { formatCents, parseRate, rateToString } from '../../../lib/money';
+import { todayIn } from '../../../lib/day-keys';
+import { BID_STATUSES, bidInputSchema, type BidInput, type BidStatus, type BidView } from '../../../lib/schemas/bid';
+import type { ContractView } from '../../../lib/schemas/contract';
+
+// Bids: a grazier offers a stay on an open block; the grower compares the bids and awards one.
+
+async function checkBid(body: unknown): Promise<BidInput> {
+  return (await check(bidInputSchema, body)) as BidInput;
+}
+
+/** The columns of a validated bid; the rate is kept in its canonical text ("0.180" → "0.18", same value). */
+function bidRecord(input: BidInput) {
+  return {
+    basis: input.basis,
+    rate: rateToString(parseRate(input.rate)),
+    headCount: input.headCount,
+    species: input.species,
+    animalClass: input.animalClass,
+    bodyWeightLb: input.bodyWeightLb,
+    startDate: input.startDate,
+    endDate: input.endDate,
+    services: input.services ?? [],
+    note: input.note ?? null,
+  };
+}
+
+/** A bid body checked exactly as POST /api/blocks/:id/bids checks it against `block` on `today` (the demo seed uses it). */
+export async function validBidRecord(body: unknown, block: Block, today: string) {
+  const input = await checkBid(body);
+  assertStayFits(stayConflicts(input, block, today));
+  assertPriceable(input, block);
+  return bidRecord(input);
+}
+
+/** The bid must price out within exact integer cents on this block (lib's chargeLines refuses past that). */
+function assertPriceable(input: BidInput, block: Block): void {
+  try {
+    normaliseBid(input, block);
+  } catch (err) {
+    if (err instanceof GrazingInputError) throw AppError.badRequest('The bid does not fit this block', { rate: 'The estimated total is too large: check the rate and the basis' });
+    throw err;
+  }
+}
+
+function todayAt(ctx: ServiceContext, block: Block): string {
+  return todayIn(block.timeZone, ctx.now());
+}
+
+async function viewOf(em: EntityManager, id: string): Promise<BidView> {
+  return (await bidViews(em, [await em.findOneByOrFail(Bid, { id })]))[0];
+}
+
+async function emailOf(em: EntityManager, accountId: string): Promise<string | null> {
+  return (await em.findOne(Account, { where: { id: accountId }, select: { id: true, email: true } }))?.email ?? null;
+}
+
+/** A grazier bids on an open block: the stay must fit the block's window, spray restrictions and out-by date. */
+export async function placeBid(ctx: ServiceContext, caller: Account, blockId: string, body: unknown): Promise<BidView> {
+  const input = await checkBid(body);
+  const { bid, block } = await inTransaction(ctx.ds, async (tx) => {
+    const block = await tx.findOneBy(Block, { id: blockId });
+    assertCanViewBlock(caller, block, await blockFacts(tx, caller, block));
+    assertCanBidOn(caller, block);
+    if (await tx.existsBy(Bid, { blockId, grazierId: caller.id, status: 'live' })) {
+      throw AppError.conflict('You already have a live bid on this block: change that bid, or withdraw it first', 'bid_exists');
+    }
+    assertStayFits(stayConflicts(input, block, todayAt(ctx, block)));
+    assertPriceable(input, block);
+    const bid = tx.create(Bid, { id: crypto.randomUUID(), blockId, grazierId: caller.id, status: 'live', ...bidRecord(input) });
+    await tx.insert(Bid, bid);
+    return { bid, block };
+  });
+  const view = await viewOf(ctx.ds.manager, bid.id);
+  await sendAll(ctx.mail, await growerMail(ctx, block, view, 'New bid'), ctx.log);
+  return view;
+}
+
+/** The grazier changes their live bid; it is checked again in full against the block as it is now. */
+export async function updateBid(ctx: ServiceContext, caller: Account, bidId: string, patch: unknown): Promise<BidView> {
+  if (patch === null || typeof patch !== 'object' || Array.isArray(patch)) throw AppError.badRequest('The request body must be a JSON object');
+  const { block } = await inTransaction(ctx.ds, async (tx) => {
+    const bid = await tx.findOneBy(Bid, { id: bidId });
+    const block = bid ? await tx.findOneBy(Block, { id: bid.blockId }) : null;
+    assertBidder(caller, bid, block);
+    assertBidLive(bid);
+    assertBlockOpen(block!);
+    const input = await checkBid({ ...bidInputOf(bid), ...(patch as Record<string, unknown>) });
+    assertStayFits(stayConflicts(input, block!, todayAt(ctx, block!)));
+    assertPriceable(input, block!);
+    await tx.update(Bid, { id: bid.id, status: 'live' }, bidRecord(input));
+    return { block: block! };
+  });
+  const view = await viewOf(ctx.ds.manager, bidId);
+  await sendAll(ctx.mail, await growerMail(ctx, block, view, 'Bid changed'), ctx.log);
+  return view;
+}
+
+export async function withdrawBid(ctx: ServiceContext, caller: Account, bidId: string): Promise<BidView> {
+  await inTransaction(ctx.ds, async (tx) => {
+    const bid = await tx.findOneBy(Bid, { id: bidId });
+    const block = bid ? await tx.findOneBy(Block, { id: bid.blockId }) : null;
+    assertBidder(caller, bid, block);
+    assertBidLive(bid);
+    assertBlockOpen(block!);
+    await tx.update(Bid, { id: bid.id, status: 'live' }, { status: 'withdrawn' });
+  });
+  return viewOf(ctx.ds.manager, bidId);
+}
+
+export async function getBid(ctx: ServiceContext, viewer: Account, bidId: string): Promise<BidView> {
+  const bid = await ctx.ds.manager.findOneBy(Bid, { id: bidId });
+  const block = bid ? await ctx.ds.manager.findOneBy(Block, { id: bid.blockId }) : null;
+  assertCanSeeBid(viewer, bid, block);
+  return (await bidViews(ctx.ds.manager, [bid]))[0];
+}
+
+/**
+ * Bids on a block. The owner sees all of them (every state), normalised for comparison; anyone else sees
+ * only their own — and if they may not see the block and have no bid on it, the block does not exist (404).
+ */
+export async function listBlockBids(ctx: ServiceContext, viewer: Account, blockId: string): Promise<{ items: BidView[] }> {
+  const em = ctx.ds.manager;
+  const block = await em.findOneBy(Block, { id: blockId });
+  if (!block) throw AppError.notFound('Block');
+  let bids: Bid[];
+  if (isOwner(viewer, block)) {
+    bids = await em.find(Bid, { where: { blockId }, order: { createdAt: 'ASC', id: 'ASC' } });
+  } else {
+    bids = await em.find(Bid, { where: { blockId, grazierId: viewer.id }, order: { createdAt: 'ASC', id: 'ASC' } });
+    if (bids.length === 0 && !canViewBlock(viewer, block, await blockFacts(em, viewer, block))) throw AppError.notFound('Block');
+  }
+  return { items: await bidViews(em, bids) };
+}
+
+/** A grazier's own bids across blocks, newest first; `status` narrows them. */
+export async function listMyBids(ctx: ServiceContext, viewer: Account, query: Record<string, unknown>): Promise<{ items: BidView[] }> {
+  const unknown = Object.keys(query).filter((k) => k !== 'status');
+  if (unknown.length > 0) throw AppError.badRequest('Some fields need attention', Object.fromEntries(unknown.map((k) => [k, `Unknown field: ${k}`])));
+  const status = query.status;
+  if (status !== undefined && !(typeof status === 'string' && (BID_STATUSES as readonly string[]).includes(status))) {
+    throw AppError.badRequest('Some fields need attention', { status: `Status must be one of: ${BID_STATUSES.join(', ')}` });
+  }
+  const bids = await ctx.ds.manager.find(Bid, {
+    where: { grazierId: viewer.id, ...(status ? { status: status as BidStatus } : {}) },
+    order: { createdAt: 'DESC', id: 'ASC' },
+  });
+  return { items: await bidViews(ctx.ds.manager, bids) };
+}
+
+/**
+ * The grower awards a bid. In one transaction: the caller must own the block (checked first, so a stranger
+ * learns nothing from a 409) → the block must be open → the bid live and still fitting the block → accept
+ * the bid → decline the others → mark the block awarded → create the contract to be signed. Marking the
+ * block is a conditional UPDATE (… WHERE status = 'open'): if another award got there first it changes
+ * no row and this one rolls back with 409, so two racing awards make exactly one contract. Mail goes out
+ * after the commit; a mail failure is logged and never undoes the award.
+ */
+export async function awardBid(ctx: ServiceContext, caller: Account, bidId: string): Promise<ContractView> {
+  const { contract, block, winner, declined } = await inTransaction(ctx.ds, async (tx) => {
+    const bid = await tx.findOneBy(Bid, { id: bidId });
+    const block = bid ? await tx.findOneBy(Block, { id: bid.blockId }) : null;
+    assertAwarder(caller, bid, block);
+    assertBlockTakesAward(block!);
+    assertBidLive(bid);
+    assertAwardable(stayConflicts(bid, block!));
+
+    const at = new Date(ctx.now());
+    await acceptBid(tx, bid, at);
+    const declined = await declineOtherBids(tx, bid, at);
+    await markBlockAwarded(tx, block!, at);
+    const contract = await createContract(tx, block!, bid);
+    return { contract, block: block!, winner: bid, declined };
+  });
+  const [view] = await contractViews(ctx.ds.manager, [contract]);
+  await sendAll(ctx.mail, await awardMails(ctx, block, winner, declined), ctx.log);
+  return view;
+}
+
+async function acceptBid(tx: EntityManager, bid: Bid, at: Date): Promise<void> {
+  const res = await tx.update(Bid, { id: bid.id, status: 'live' }, { status: 'accepted', decidedAt: at });
+  if (res.affected !== 1) throw AppError.conflict('This bid changed meanwhile; reload the bids', 'bid_not_live');
+}
+
+async function declineOtherBids(tx: EntityManager, winner: Bid, at: Date): Promise<Bid[]> {
+  const others = (await tx.findBy(Bid, { blockId: winner.blockId, status: 'live' })).filter((b) => b.id !== winner.id);
+  for (const b of others) await tx.update(Bid, { id: b.id, status: 'live' }, { status: 'declined', decidedAt: at });
+  return others;
+}
+
+/** Exported for the test that a stale read cannot award a block twice. */
+export async function markBlockAwarded(tx: EntityManager, block: Block, at: Date): Promise<void> {
+  const res = await tx.update(Block, { id: block.id, status: 'open' }, { status: 'awarded', awardedAt: at });
+  if (res.affected !== 1) throw AppError.conflict('This block has already been awarded', 'already_awarded');
+}
+
+// ——— mail ———
+
+function describe(view: Pick<BidView, 'headCount' | 'species' | 'startDate' | 'endDate' | 'basis' | 'rate' | 'normalised'>): string {
+  const unit = view.basis === 'head-day' ? 'per head-day' : view.basis === 'acre' ? 'per acre' : 'flat';
+  return (
+    `${view.headCount} ${view.species}, ${view.startDate} to ${view.endDate} (${view.normalised.days} days, ${view.normalised.headDays} head-days), ` +
+    `$${view.rate} ${unit}: estimated total ${formatCents(view.normalised.estimatedTotalCents)}`
+  );
+}
+
+async function growerMail(ctx: ServiceContext, block: Block, view: BidView, what: 'New bid' | 'Bid changed'): Promise<MailMessage[]> {
+  const to = await emailOf(ctx.ds.manager, block.ownerId);
+  if (!to) return [];
+  const grazier = view.grazier.businessName ?? view.grazier.name;
+  return [
+    {
+      to,
+      subject: `${what} on ${block.name}`,
+      text:
+        `${grazier} ${what === 'New bid' ? 'bid on' : 'changed their bid on'} ${block.name}: ${describe(view)}.\n` +
+        (view.normalised.overgrazes
+          ? `Predicted utilisation ${view.normalised.predictedUtilizationPct.toFixed(0)} % is above your target of ${view.normalised.targetUtilizationPct} %.\n`
+          : '') +
+        '\nCompare the bids on the block in Fieldfold.',
+    },
+  ];
+}
+
+async function awardMails(ctx: ServiceContext, block: Block, winner: Bid, declined: Bid[]): Promise<MailMessage[]> {
+  const em = ctx.ds.manager;
+  const out: MailMessage[] = [];
+  const winnerEmail = await emailOf(em, winner.grazierId);
+  if (winnerEmail) {
+    const n = normaliseBid(winner, block);
+    out.push({
+      to: winnerEmail,
+      subject: `Your bid on ${block.name} was accepted`,
+      text:
+        `The grower accepted your bid on ${block.name}: ${describe({ ...winner, normalised: n })}. ` +
+        `Animals must be out by ${block.outBy}.\n\nA contract is ready for both of you to sign in Fieldfold.`,
+    });
+  }
+  for (const bid of declined) {
+    const to = await emailOf(em, bid.grazierId);
+    if (to) {
+      out.push({
+        to,
+        subject: `Your bid on ${block.name} was not chosen`,
+        text: `The grower awarded ${block.name} to another bid. Your bid for ${bid.startDate} to ${bid.endDate} is closed; thank you for bidding.`,
+      });
+    }
+  }
+  return out;
+}

@@ -1,0 +1,177 @@
+import { In, type EntityManager } from 'typeorm';
+import { Account } from '../accounts/account.entity';
+import { hasRole } from '../../lib/http/auth';
+import type { ServiceContext } from '../../lib/service-context';
+import { Bid } from '../bids/bid.entity';
+import { Block } from './block.entity';
+import { BlockPhoto } from './block-photo.entity';
+import { canBidOn, isOwner } from './blocks.policy';
+import { photoUrl, signPhotoAccess } from './photo-access';
+import { capacity, daysForHead } from '../../../lib/grazing/capacity';
+import { intakeForFlock, type FlockSpecies } from '../../../lib/grazing/flock-intake';
+import { grazeSpan, type GrazeSpan } from '../../../lib/grazing/graze-window';
+import { cautionsForBlock } from '../../../lib/grazing/safety';
+import { distanceMiles } from '../../../lib/geo';
+import type { BlockInput, BlockSummary, BlockView, FlockFit, PartyView } from '../../../lib/schemas/block';
+
+// Turns stored blocks into what the API returns, with the figures that depend on who is looking: distance
+// from their home base, days of feed for their flock, the cautions for their species. Every figure comes
+// from lib/ (the same functions the calculator and the app use).
+
+export function partyOf(a: Account): PartyView {
+  return { id: a.id, name: a.name, businessName: a.businessName };
+}
+
+export function blockSummary(b: Block): BlockSummary {
+  return { id: b.id, name: b.name, status: b.status, crop: b.crop, acres: b.acres, placeName: b.placeName, timeZone: b.timeZone };
+}
+
+/** The viewer's flock, when they are a grazier who has described one in their profile. */
+export function flockOf(viewer: Account): { species: FlockSpecies; animalClass: string; headCount: number; bodyWeightLb: number } | null {
+  if (!hasRole(viewer, 'grazier')) return null;
+  if (!viewer.flockSpecies || !viewer.flockClass || viewer.flockHeadCount == null || viewer.flockBodyWeightLb == null) return null;
+  return { species: viewer.flockSpecies as FlockSpecies, animalClass: viewer.flockClass, headCount: viewer.flockHeadCount, bodyWeightLb: viewer.flockBodyWeightLb };
+}
+
+export function homeOf(viewer: Account): { latitude: number; longitude: number } | null {
+  if (viewer.homeLatitude == null || viewer.homeLongitude == null) return null;
+  return { latitude: viewer.homeLatitude, longitude: viewer.homeLongitude };
+}
+
+export interface ViewerFigures {
+  span: GrazeSpan;
+  distanceMiles: number | null;
+  capacity: number | null;
+  daysForMyFlock: number | null;
+  flockFit: FlockFit | null;
+}
+
+/** The figures list filters and sorts on, cheap enough to compute for every open block. */
+export function viewerFigures(viewer: Account, block: Block): ViewerFigures {
+  const home = homeOf(viewer);
+  const flock = flockOf(viewer);
+  let fit: FlockFit | null = null;
+  let headDays: number | null = null;
+  let days: number | null = null;
+  if (flock) {
+    const intake = intakeForFlock(flock.species, flock.animalClass);
+    fit = { headCount: flock.headCount, bodyWeightLb: flock.bodyWeightLb, intakePctBodyWeight: intake.pct, intakeBasis: intake.basis, intakeSource: intake.source };
+    headDays = capacity({
+      acres: block.acres,
+      lbDmPerAcre: block.lbDmPerAcre,
+      utilizationPct: block.targetUtilizationPct,
+      animal: { bodyWeightLb: flock.bodyWeightLb, intakePctBodyWeight: intake.pct },
+    }).headDays;
+    days = daysForHead(headDays, flock.headCount);
+  }
+  return {
+    span: grazeSpan(block),
+    distanceMiles: home ? distanceMiles(home, block) : null,
+    capacity: headDays,
+    daysForMyFlock: days,
+    flockFit: fit,
+  };
+}
+
+/** The block as the grower entered it: the base a PATCH is merged into. */
+export function blockInputOf(b: Block): BlockInput {
+  return {
+    name: b.name,
+    crop: b.crop,
+    acres: b.acres,
+    placeName: b.placeName,
+    latitude: b.latitude,
+    longitude: b.longitude,
+    timeZone: b.timeZone,
+    forageMethod: b.forageMethod,
+    ...(b.forageMethod === 'direct' ? { lbDmPerAcre: b.lbDmPerAcre } : {}),
+    ...(b.forageMethod === 'samples' && b.forageSamples ? { forageSamples: b.forageSamples } : {}),
+    ...(b.forageMethod === 'height' && b.forageHeight ? { forageHeight: b.forageHeight } : {}),
+    targetUtilizationPct: b.targetUtilizationPct,
+    residualHeightIn: b.residualHeightIn,
+    windowStart: b.windowStart,
+    windowEnd: b.windowEnd,
+    outBy: b.outBy,
+    harvestDate: b.harvestDate,
+    sprayRecords: b.sprayRecords,
+    waterOnSite: b.waterOnSite,
+    perimeterFence: b.perimeterFence,
+    truckAccess: b.truckAccess,
+    speciesAllowed: b.speciesAllowed,
+    youngPlantings: b.youngPlantings,
+    notes: b.notes,
+  };
+}
+
+/** Builds views for several blocks with one query per related table. */
+export async function blockViews(ctx: ServiceContext, viewer: Account, blocks: Block[], em: EntityManager = ctx.ds.manager): Promise<BlockView[]> {
+  if (blocks.length === 0) return [];
+  const ids = blocks.map((b) => b.id);
+  const ownerIds = [...new Set(blocks.map((b) => b.ownerId))];
+  const [owners, photos, liveBids] = await Promise.all([
+    em.findBy(Account, { id: In(ownerIds) }),
+    em.find(BlockPhoto, { where: { blockId: In(ids) }, order: { position: 'ASC' } }),
+    em.find(Bid, { where: { blockId: In(ids), status: 'live' }, select: { id: true, blockId: true, grazierId: true } }),
+  ]);
+  const ownerById = new Map(owners.map((o) => [o.id, o]));
+  const flock = flockOf(viewer);
+
+  return blocks.map((b) => {
+    const owner = ownerById.get(b.ownerId);
+    const mine = isOwner(viewer, b);
+    const figures = viewerFigures(viewer, b);
+    const myLiveBid = liveBids.find((x) => x.blockId === b.id && x.grazierId === viewer.id) ?? null;
+    return {
+      id: b.id,
+      status: b.status,
+      owner: owner ? partyOf(owner) : { id: b.ownerId, name: 'Unknown grower', businessName: null },
+      name: b.name,
+      crop: b.crop,
+      acres: b.acres,
+      placeName: b.placeName,
+      latitude: b.latitude,
+      longitude: b.longitude,
+      timeZone: b.timeZone,
+      forageMethod: b.forageMethod,
+      lbDmPerAcre: b.lbDmPerAcre,
+      forageSamples: b.forageSamples,
+      forageHeight: b.forageHeight,
+      targetUtilizationPct: b.targetUtilizationPct,
+      residualHeightIn: b.residualHeightIn,
+      windowStart: b.windowStart,
+      windowEnd: b.windowEnd,
+      outBy: b.outBy,
+      harvestDate: b.harvestDate,
+      sprayRecords: b.sprayRecords,
+      waterOnSite: b.waterOnSite,
+      perimeterFence: b.perimeterFence,
+      truckAccess: b.truckAccess,
+      speciesAllowed: b.speciesAllowed,
+      youngPlantings: b.youngPlantings,
+      notes: b.notes,
+      earliestSafeDate: figures.span.earliestSafeDate,
+      grazeFrom: figures.span.from,
+      grazeUntil: figures.span.until,
+      distanceMiles: figures.distanceMiles,
+      capacity: figures.capacity,
+      daysForMyFlock: figures.daysForMyFlock,
+      flockFit: figures.flockFit,
+      cautions: cautionsForBlock(b, flock && !mine ? { species: flock.species } : {}),
+      photos: photos
+        .filter((p) => p.blockId === b.id)
+        .map((p) => ({
+          id: p.id,
+          url: photoUrl(b.id, p.id, signPhotoAccess(ctx.tokenSecret, { photoId: p.id, blockId: b.id, viewerId: viewer.id })),
+          mimeType: p.mimeType,
+          sizeBytes: p.sizeBytes,
+          createdAt: p.createdAt.toISOString(),
+        })),
+      liveBidCount: mine ? liveBids.filter((x) => x.blockId === b.id).length : null,
+      viewer: { isOwner: mine, canBid: canBidOn(viewer, b) && !myLiveBid, myLiveBidId: myLiveBid?.id ?? null },
+      publishedAt: b.publishedAt?.toISOString() ?? null,
+      awardedAt: b.awardedAt?.toISOString() ?? null,
+      createdAt: b.createdAt.toISOString(),
+      updatedAt: b.updatedAt.toISOString(),
+    };
+  });
+}
