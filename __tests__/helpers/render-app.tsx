@@ -6,7 +6,8 @@ import { SessionProvider } from '@/hooks/auth/session';
 
 /** Renders a component inside the app's providers, with a query client that neither retries nor leaves GC timers behind. */
 export async function renderWithProviders(ui: ReactElement) {
-  const queryClient = new QueryClient({ defaultOptions: { queries: { retry: false, gcTime: Infinity } } });
+  // gcTime Infinity: no clean-up timers (a finished mutation otherwise keeps one for 5 minutes and holds jest open).
+  const queryClient = new QueryClient({ defaultOptions: { queries: { retry: false, gcTime: Infinity }, mutations: { gcTime: Infinity } } });
   const utils = render(
     <SafeAreaProvider initialMetrics={{ frame: { x: 0, y: 0, width: 390, height: 844 }, insets: { top: 0, left: 0, right: 0, bottom: 0 } }}>
       <QueryClientProvider client={queryClient}>

@@ -3,23 +3,10 @@ import type { BlockView } from '@/lib/schemas/block';
 import { intakeForFlock } from '@/lib/grazing/flock-intake';
 import { formatCents } from '@/lib/money';
 import { formatDay, formatNumber, formatWholeDays } from '@/lib/format';
-import { Card, Notice, Text } from '@/components/ui';
+import { Card, Figure, Notice, Text } from '@/components/ui';
 import { colors, radius, space } from '@/components/ui/theme';
 import { previewBid, type BidFormValues } from './bid-form-values';
 import { UtilisationMeter } from './utilisation-meter';
-
-function Figure({ label, value, testID, strong }: { label: string; value: string; testID: string; strong?: boolean }) {
-  return (
-    <View style={[styles.figure, strong && styles.strong]}>
-      <Text variant="caption" tone="muted">
-        {label}
-      </Text>
-      <Text variant={strong ? 'figure' : 'bodyStrong'} testID={testID}>
-        {value}
-      </Text>
-    </View>
-  );
-}
 
 /**
  * What the bid comes to, as the grazier types: the stay, the estimated total and what it costs per acre and
@@ -66,7 +53,7 @@ function Figures({ preview, values, block }: { preview: NonNullable<ReturnType<t
   return (
     <>
       <View style={styles.grid}>
-        <Figure label="Estimated total" value={formatCents(n.estimatedTotalCents)} testID="preview-total" strong />
+        <Figure label="Estimated total" value={formatCents(n.estimatedTotalCents)} testID="preview-total" strong style={styles.wideFigure} />
         <Figure label="Stay" value={formatWholeDays(n.days)} testID="preview-days" />
         <Figure label="Head-days" value={formatNumber(n.headDays)} testID="preview-head-days" />
         <Figure label="Per acre" value={formatCents(n.costPerAcreCents)} testID="preview-per-acre" />
@@ -100,8 +87,7 @@ function Figures({ preview, values, block }: { preview: NonNullable<ReturnType<t
 const styles = StyleSheet.create({
   card: { gap: space.md },
   grid: { flexDirection: 'row', flexWrap: 'wrap', gap: space.sm },
-  figure: { flexGrow: 1, flexBasis: 140, padding: space.md, borderRadius: radius.md, backgroundColor: colors.paper, gap: 2 },
-  strong: { flexBasis: '100%', backgroundColor: colors.coverWash },
+  wideFigure: { flexBasis: '100%' },
   line: { backgroundColor: colors.coverDeep, borderRadius: radius.md, paddingHorizontal: space.lg, paddingVertical: space.md, gap: 2 },
   lineOver: { backgroundColor: colors.danger },
 });

@@ -2,25 +2,9 @@ import { StyleSheet, View } from 'react-native';
 import type { CalculatorResult } from '@/lib/grazing/calculator';
 import { AU_CONVENTION } from '@/lib/grazing/capacity';
 import { formatNumber, formatWholeDays } from '@/lib/format';
-import { Card, Text } from '@/components/ui';
+import { Card, Figure, Text } from '@/components/ui';
 import { colors, radius, space } from '@/components/ui/theme';
 import { UtilisationBar } from './utilisation-bar';
-
-function Figure({ label, value, unit, testID, strong }: { label: string; value: string; unit: string; testID: string; strong?: boolean }) {
-  return (
-    <View style={[styles.figure, strong && styles.figureStrong]}>
-      <Text variant="caption" tone="muted">
-        {label}
-      </Text>
-      <Text variant={strong ? 'figure' : 'bodyStrong'} testID={testID}>
-        {value}
-      </Text>
-      <Text variant="caption" tone="muted">
-        {unit}
-      </Text>
-    </View>
-  );
-}
 
 export function CalculatorResults({ result, headCount, utilizationPct }: { result: CalculatorResult; headCount: number | null; utilizationPct: number | null }) {
   const { forage, capacity, daysForHerd } = result;
@@ -34,20 +18,20 @@ export function CalculatorResults({ result, headCount, utilizationPct }: { resul
       ) : (
         <>
           <View style={styles.grid}>
-            <Figure label="Forage" value={formatNumber(forage.lbDmPerAcre)} unit={`lb DM/ac (${formatNumber(forage.kgDmPerHa)} kg/ha) · ${forage.note}`} testID="calc-lb-per-acre" />
-            <Figure label="Standing" value={formatNumber(capacity.standingLb)} unit="lb DM on the block" testID="calc-standing" />
-            <Figure label="Allowable take" value={formatNumber(capacity.allowableLb)} unit="lb DM" testID="calc-allowable" />
-            <Figure label="Intake" value={formatNumber(capacity.dailyIntakeLbPerHead, 2)} unit="lb DM per head per day" testID="calc-intake" />
-            <Figure label="Capacity" value={formatNumber(Math.floor(capacity.headDays))} unit="head-days" testID="calc-head-days" strong />
+            <Figure label="Forage" value={formatNumber(forage.lbDmPerAcre)} detail={`lb DM/ac (${formatNumber(forage.kgDmPerHa)} kg/ha) · ${forage.note}`} testID="calc-lb-per-acre" />
+            <Figure label="Standing" value={formatNumber(capacity.standingLb)} detail="lb DM on the block" testID="calc-standing" />
+            <Figure label="Allowable take" value={formatNumber(capacity.allowableLb)} detail="lb DM" testID="calc-allowable" />
+            <Figure label="Intake" value={formatNumber(capacity.dailyIntakeLbPerHead, 2)} detail="lb DM per head per day" testID="calc-intake" />
+            <Figure label="Capacity" value={formatNumber(Math.floor(capacity.headDays))} detail="head-days" testID="calc-head-days" strong />
             <Figure
               label={headCount ? `Days for ${formatNumber(headCount)} head` : 'Days for your flock'}
               value={daysForHerd == null ? '—' : formatWholeDays(daysForHerd)}
-              unit={daysForHerd == null ? 'enter a head count' : 'whole days, rounded down'}
+              detail={daysForHerd == null ? 'enter a head count' : 'whole days, rounded down'}
               testID="calc-days"
               strong
             />
-            <Figure label="Animal-unit days" value={formatNumber(capacity.animalUnitDays, 1)} unit="AUD" testID="calc-aud" />
-            <Figure label="Animal-unit months" value={formatNumber(capacity.aum, 2)} unit="AUM" testID="calc-aum" />
+            <Figure label="Animal-unit days" value={formatNumber(capacity.animalUnitDays, 1)} detail="AUD" testID="calc-aud" />
+            <Figure label="Animal-unit months" value={formatNumber(capacity.aum, 2)} detail="AUM" testID="calc-aum" />
           </View>
           {utilizationPct != null ? <UtilisationBar takenPct={utilizationPct} standingLb={capacity.standingLb} /> : null}
           <Text variant="caption" tone="muted">
@@ -64,8 +48,6 @@ export function CalculatorResults({ result, headCount, utilizationPct }: { resul
 const styles = StyleSheet.create({
   card: { gap: space.md },
   grid: { flexDirection: 'row', flexWrap: 'wrap', gap: space.sm },
-  figure: { flexGrow: 1, flexBasis: 150, padding: space.md, borderRadius: radius.md, backgroundColor: colors.paper, gap: 2 },
-  figureStrong: { backgroundColor: colors.coverWash },
   summary: { backgroundColor: colors.coverDeep, borderRadius: radius.md, paddingHorizontal: space.lg, paddingVertical: space.md },
 });
 

@@ -2,24 +2,8 @@ import { Link } from 'expo-router';
 import { StyleSheet, View } from 'react-native';
 import type { BlockView } from '@/lib/schemas/block';
 import { formatNumber, formatWholeDays } from '@/lib/format';
-import { Card, Text } from '@/components/ui';
-import { colors, radius, space } from '@/components/ui/theme';
-
-function Figure({ label, value, unit, testID, strong }: { label: string; value: string; unit: string; testID?: string; strong?: boolean }) {
-  return (
-    <View style={[styles.figure, strong && styles.strong]}>
-      <Text variant="caption" tone="muted">
-        {label}
-      </Text>
-      <Text variant={strong ? 'figure' : 'bodyStrong'} testID={testID}>
-        {value}
-      </Text>
-      <Text variant="caption" tone="muted">
-        {unit}
-      </Text>
-    </View>
-  );
-}
+import { Card, Figure, Text } from '@/components/ui';
+import { space } from '@/components/ui/theme';
 
 /** What this block holds for the viewer's own flock at the grower's target take, and how far it is (figures from the server's lib/ arithmetic). */
 export function FlockCapacityCard({ block }: { block: BlockView }) {
@@ -33,11 +17,11 @@ export function FlockCapacityCard({ block }: { block: BlockView }) {
             <Figure
               label={`Days for your ${formatNumber(fit.headCount)} head`}
               value={formatWholeDays(block.daysForMyFlock)}
-              unit="whole days, rounded down"
+              detail="whole days, rounded down"
               testID="flock-days"
               strong
             />
-            <Figure label="Capacity" value={formatNumber(Math.floor(block.capacity))} unit="head-days" testID="flock-head-days" strong />
+            <Figure label="Capacity" value={formatNumber(Math.floor(block.capacity))} detail="head-days" testID="flock-head-days" strong />
           </View>
           <Text variant="caption" tone="muted">
             At the grower's target take of {formatNumber(block.targetUtilizationPct)} % of {formatNumber(block.lbDmPerAcre)} lb DM/ac on{' '}
@@ -74,7 +58,5 @@ export function FlockCapacityCard({ block }: { block: BlockView }) {
 const styles = StyleSheet.create({
   card: { gap: space.md },
   grid: { flexDirection: 'row', flexWrap: 'wrap', gap: space.sm },
-  figure: { flexGrow: 1, flexBasis: 140, padding: space.md, borderRadius: radius.md, backgroundColor: colors.paper, gap: 2 },
-  strong: { backgroundColor: colors.coverWash },
   distance: { gap: 2 },
 });

@@ -9,3 +9,4 @@ export * from './theme';
 export { TwoPane } from './two-pane';
 export { Segmented } from './segmented';
 export { Chip } from './chip';
+export { Figure } from './figure';
