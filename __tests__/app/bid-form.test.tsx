@@ -1,5 +1,4 @@
 import { fireEvent, screen, waitFor } from '@testing-library/react-native';
-import type { QueryClient } from '@tanstack/react-query';
 import { BidForm } from '@/components/bids/bid-form';
 import { normaliseBid } from '@/lib/grazing/bid-compare';
 import { formatCents } from '@/lib/money';
@@ -69,12 +68,6 @@ beforeEach(() => {
   jest.spyOn(Date, 'now').mockReturnValue(NOW);
 });
 afterEach(() => jest.restoreAllMocks());
-
-/** Empties the client; a finished mutation keeps a 5-minute clean-up timer (TanStack Query's gcTime) that would hold jest open. */
-function release(queryClient: QueryClient) {
-  for (const m of queryClient.getMutationCache().getAll()) m.destroy();
-  queryClient.clear();
-}
 
 const textOf = (id: string) => {
   const children = screen.getByTestId(id).props.children;
@@ -166,7 +159,7 @@ describe('BidForm', () => {
       services: ['guardian dogs'],
       note: 'Two dogs stay with the flock.',
     });
-    release(queryClient);
+    queryClient.clear();
   });
 
   it("refuses a stay past the out-by date and a missing rate before sending, with the schema's and the block's own words", async () => {
@@ -176,7 +169,7 @@ describe('BidForm', () => {
     expect(await screen.findByText('Rate is required')).toBeTruthy();
     expect(screen.getByText(/End date must be on or before the animals-out-by date, 2027-03-10/)).toBeTruthy();
     expect(fetchMock).not.toHaveBeenCalled();
-    release(queryClient);
+    queryClient.clear();
   });
 
   it("puts the server's 400 for the start date beside the field", async () => {
@@ -190,7 +183,7 @@ describe('BidForm', () => {
     expect(screen.getByText('The bid does not fit this block')).toBeTruthy();
     expect(fetchMock).toHaveBeenCalledTimes(1);
     expect(onDone).not.toHaveBeenCalled();
-    release(queryClient);
+    queryClient.clear();
   });
 
   it('changes my live bid with PATCH, and withdraws it after confirming', async () => {
@@ -218,6 +211,6 @@ describe('BidForm', () => {
     await waitFor(() => expect(onDone).toHaveBeenLastCalledWith(withdrawn));
     expect(fetchMock.mock.calls[1][0]).toBe('/api/bids/bid-1/withdraw');
     expect(fetchMock.mock.calls[1][1].method).toBe('POST');
-    release(queryClient);
+    queryClient.clear();
   });
 });

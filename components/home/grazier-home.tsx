@@ -104,7 +104,12 @@ export function GrazierHome() {
               onPress={() => setFiltersOpen((o) => !o)}
             />
           </View>
-          {filtersOpen ? <Card>{filterBar}</Card> : null}
+          {filtersOpen ? (
+            <Card>
+              {filterBar}
+              <Button title="Show the blocks" onPress={() => setFiltersOpen(false)} />
+            </Card>
+          ) : null}
           <SortChoice value={values.sort} onChange={(sort) => change({ ...values, sort })} hasHome={hasHome} hasFlock={!!flock} error={typed.errors.sort} />
           {results}
           <CalculatorCard />

@@ -70,7 +70,7 @@ export function BlockMarketView({ block }: { block: BlockView }) {
 function BidCard({ block, action }: { block: BlockView; action: ReactNode }) {
   return (
     <Card style={styles.bid}>
-      <Text variant="heading">{block.viewer.myLiveBidId ? 'Your bid' : 'Bid'}</Text>
+      <Text variant="heading">{block.viewer.myLiveBidId ? 'Your bid' : block.status === 'open' ? 'Bid' : 'Dates'}</Text>
       <Text>
         Animals may be on the block <Text variant="bodyStrong">{formatDayRange(block.grazeFrom, block.grazeUntil)}</Text> and must be out by{' '}
         <Text variant="bodyStrong">{formatDay(block.outBy)}</Text>.
@@ -84,9 +84,18 @@ function BidCard({ block, action }: { block: BlockView; action: ReactNode }) {
       {block.viewer.myLiveBidId ? <MyLiveBid bidId={block.viewer.myLiveBidId} /> : null}
       {action}
       {!action ? (
-        <Notice tone="info">
-          {block.status === 'open' ? 'Bidding is not open to this account.' : 'This block is no longer taking bids.'}
-        </Notice>
+        block.status === 'open' ? (
+          <Notice tone="info">Bidding is not open to this account.</Notice>
+        ) : (
+          // A grazier sees a block that is no longer open only when it is contracted to them.
+          <Notice tone="ok" title="Awarded to you">
+            <Link href="/contracts">
+              <Text variant="caption" tone="cover">
+                The agreed terms are in Contracts →
+              </Text>
+            </Link>
+          </Notice>
+        )
       ) : null}
     </Card>
   );

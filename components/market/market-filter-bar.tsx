@@ -39,16 +39,19 @@ export function MarketFilterBar({ values, errors, onChange, onClear, hasHome, fl
         </Text>
       </View>
 
-      <TextField
-        label="Within"
-        unit="miles"
-        value={values.maxMiles}
-        onChangeText={set('maxMiles')}
-        inputMode="decimal"
-        editable={hasHome}
-        error={errors.maxMiles}
-        hint={hasHome ? 'As the crow flies from your home base.' : 'Add your home base in Account to filter by distance.'}
-      />
+      {hasHome ? (
+        <TextField
+          label="Within"
+          unit="miles"
+          value={values.maxMiles}
+          onChangeText={set('maxMiles')}
+          inputMode="decimal"
+          error={errors.maxMiles}
+          hint="As the crow flies from your home base."
+        />
+      ) : (
+        <Unavailable label="Distance" text="Add your home base in Account to filter and sort by distance." />
+      )}
 
       <View style={styles.group}>
         <View style={styles.row}>
@@ -61,20 +64,19 @@ export function MarketFilterBar({ values, errors, onChange, onClear, hasHome, fl
         </View>
       </View>
 
-      <TextField
-        label="Feeds my flock at least"
-        unit="days"
-        value={values.minDays}
-        onChangeText={set('minDays')}
-        inputMode="decimal"
-        editable={flockHead != null}
-        error={errors.minDays}
-        hint={
-          flockHead != null
-            ? `Days for your ${formatNumber(flockHead)} head at each grower's target take.`
-            : 'Describe your flock in Account to filter by days of feed.'
-        }
-      />
+      {flockHead != null ? (
+        <TextField
+          label="Feeds my flock at least"
+          unit="days"
+          value={values.minDays}
+          onChangeText={set('minDays')}
+          inputMode="decimal"
+          error={errors.minDays}
+          hint={`Days for your ${formatNumber(flockHead)} head at each grower's target take.`}
+        />
+      ) : (
+        <Unavailable label="Days of feed" text="Describe your flock in Account to filter and sort by the days each block feeds it." />
+      )}
 
       <View style={styles.group} role="radiogroup" aria-label="Species allowed">
         <Text variant="label">Species allowed</Text>
@@ -91,6 +93,18 @@ export function MarketFilterBar({ values, errors, onChange, onClear, hasHome, fl
       ) : null}
 
       {count > 0 ? <Button title={`Clear ${count === 1 ? 'the filter' : `${count} filters`}`} variant="quiet" compact onPress={onClear} /> : null}
+    </View>
+  );
+}
+
+/** A filter the profile cannot support yet, said plainly instead of an input that does nothing. */
+function Unavailable({ label, text }: { label: string; text: string }) {
+  return (
+    <View style={styles.group}>
+      <Text variant="label">{label}</Text>
+      <Text variant="caption" tone="muted">
+        {text}
+      </Text>
     </View>
   );
 }
