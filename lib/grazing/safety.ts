@@ -1,5 +1,6 @@
 import { addDaysToKey } from '../dates';
 import { daysBetween } from '../day-keys';
+import { formatDay } from '../format';
 import { speciesIn, type FlockSpecies, type GrazingSpecies } from './flock-intake';
 
 // The cautions a block carries, computed once here so the server returns them and every screen shows the
@@ -106,10 +107,10 @@ export function cautionsForBlock(block: CautionBlock, options: CautionOptions = 
     out.push({
       key: 'pesticide-restriction',
       tone: 'danger',
-      title: `No grazing before ${safe}`,
+      title: `No grazing before ${formatDay(safe)}`,
       text:
-        `By the spray records the grower entered, the last grazing restriction ends on ${safe} ` +
-        `(${binding.product}, applied ${binding.appliedOn}, label: no grazing for ${binding.grazingRestrictionDays} days). ` +
+        `By the spray records the grower entered, the last grazing restriction ends on ${formatDay(safe)} ` +
+        `(${binding.product}, applied ${formatDay(binding.appliedOn)}, label: no grazing for ${binding.grazingRestrictionDays} days). ` +
         `The label is the law and some restrict grazing for up to 18 months (${LABEL_SOURCE}): read each label yourself, ` +
         'ask about anything applied since, and follow local rules and your licensed pest-control adviser.',
     });
@@ -126,7 +127,7 @@ export function cautionsForBlock(block: CautionBlock, options: CautionOptions = 
 
   const copper = block.sprayRecords.filter((r) => r.containsCopper);
   if (copper.length > 0) {
-    const list = copper.map((r) => `${r.product} (${r.appliedOn})`).join(', ');
+    const list = copper.map((r) => `${r.product} (${formatDay(r.appliedOn)})`).join(', ');
     if (species.includes('sheep')) {
       out.push({
         key: 'copper-sheep',
@@ -153,8 +154,8 @@ export function cautionsForBlock(block: CautionBlock, options: CautionOptions = 
     const gap = block.harvestDate ? daysBetween(block.outBy, block.harvestDate) : null;
     const gapText =
       gap === null
-        ? `Animals must be out by ${block.outBy}; the grower gave no harvest date.`
-        : `Animals must be out by ${block.outBy}, ${gap} days before harvest on ${block.harvestDate}.`;
+        ? `Animals must be out by ${formatDay(block.outBy)}; the grower gave no harvest date.`
+        : `Animals must be out by ${formatDay(block.outBy)}, ${gap} days before harvest on ${formatDay(block.harvestDate)}.`;
     const short = gap !== null && gap < ORGANIC_MANURE_DAYS.soilContact;
     out.push({
       key: 'food-safety-harvest',
