@@ -69,3 +69,15 @@ export async function tabNames(page: Page): Promise<string[]> {
   await tabs.first().waitFor();
   return tabs.evaluateAll((els) => els.map((e) => e.getAttribute('aria-label') ?? ''));
 }
+
+/** Calls the API directly (set-up and cross-checks); throws with the body on any 4xx/5xx. */
+export async function api<T>(path: string, init: { method?: string; body?: unknown; token?: string } = {}): Promise<T> {
+  const res = await fetch(`${BASE_URL}/api${path}`, {
+    method: init.method ?? (init.body ? 'POST' : 'GET'),
+    headers: { 'Content-Type': 'application/json', ...(init.token ? { Authorization: `Bearer ${init.token}` } : {}) },
+    body: init.body ? JSON.stringify(init.body) : undefined,
+  });
+  const json = (await res.json().catch(() => ({}))) as T;
+  if (!res.ok) throw new Error(`${path}: ${res.status} ${JSON.stringify(json)}`);
+  return json;
+}

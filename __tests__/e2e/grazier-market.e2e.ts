@@ -1,4 +1,4 @@
-import { BASE_URL, PHONE, WIDE, button, field, openBrowser, screenshot, signIn, type Browser } from './browser';
+import { api, PHONE, WIDE, button, field, openBrowser, screenshot, signIn, type Browser } from './browser';
 
 // The grazier's side of the market through the UI: Find grazing with a filter, a seeded open block with its
 // cautions and the capacity for my flock, a bid with its live preview, My bids, and a contract's terms.
@@ -24,17 +24,6 @@ interface BidLite {
   rate: string;
   headCount: number;
   normalised: { estimatedTotalCents: number; headDays: number; costPerAcreCents: number; costPerHeadDayRate: string; overgrazes: boolean };
-}
-
-async function api<T>(path: string, init: { method?: string; body?: unknown; token?: string } = {}): Promise<T> {
-  const res = await fetch(`${BASE_URL}/api${path}`, {
-    method: init.method ?? (init.body ? 'POST' : 'GET'),
-    headers: { 'Content-Type': 'application/json', ...(init.token ? { Authorization: `Bearer ${init.token}` } : {}) },
-    body: init.body ? JSON.stringify(init.body) : undefined,
-  });
-  const json = (await res.json().catch(() => ({}))) as T;
-  if (!res.ok) throw new Error(`${path}: ${res.status} ${JSON.stringify(json)}`);
-  return json;
 }
 
 const login = (email: string) => api<{ token: string }>('/auth/login', { body: { email, password: PASSWORD } }).then((r) => r.token);

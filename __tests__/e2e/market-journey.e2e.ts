@@ -1,21 +1,10 @@
 import type { Page } from 'playwright-core';
-import { BASE_URL, PHONE, WIDE, button, field, openBrowser, screenshot, signIn, type Browser } from './browser';
+import { api, BASE_URL, PHONE, WIDE, button, field, openBrowser, screenshot, signIn, type Browser } from './browser';
 
 // The market end to end, through the UI: a grower posts and opens a block, two graziers bid, the grower
 // compares the bids (cards on a phone, a table at 1280 px) and awards one, which makes a contract.
 const PASSWORD = 'calder-valley-demo';
 const BLOCK = `Creekside almond middles ${Date.now().toString(36)}`;
-
-async function api<T>(path: string, init: { method?: string; body?: unknown; token?: string } = {}): Promise<T> {
-  const res = await fetch(`${BASE_URL}/api${path}`, {
-    method: init.method ?? (init.body ? 'POST' : 'GET'),
-    headers: { 'Content-Type': 'application/json', ...(init.token ? { Authorization: `Bearer ${init.token}` } : {}) },
-    body: init.body ? JSON.stringify(init.body) : undefined,
-  });
-  const json = (await res.json().catch(() => ({}))) as T;
-  if (!res.ok) throw new Error(`${path}: ${res.status} ${JSON.stringify(json)}`);
-  return json;
-}
 
 /** Signs out the way a user does: Account tab → Sign out. */
 async function signOut(page: Page) {

@@ -1,6 +1,7 @@
 import { useField } from 'formik';
 import { View } from 'react-native';
 import { Text } from '@/components/ui';
+import { FieldMessage } from '@/components/ui/field-message';
 import { colors, fonts, radius, space } from '@/components/ui/theme';
 
 // On the web a real <input type="date"> gives phones their own date wheel and keeps the value as YYYY-MM-DD,
@@ -33,15 +34,7 @@ export function FormDateField({ name, label, hint }: { name: string; label: stri
           width: '100%',
         }}
       />
-      {error ? (
-        <Text variant="caption" tone="danger" role="alert">
-          {error}
-        </Text>
-      ) : hint ? (
-        <Text variant="caption" tone="muted">
-          {hint}
-        </Text>
-      ) : null}
+      <FieldMessage error={error} hint={hint} />
     </View>
   );
 }

@@ -1,6 +1,7 @@
 import { forwardRef, useState } from 'react';
 import { StyleSheet, TextInput, View, type TextInputProps } from 'react-native';
 import { Text } from './text';
+import { FieldMessage } from './field-message';
 import { colors, fonts, radius, space } from './theme';
 
 export interface TextFieldProps extends TextInputProps {
@@ -40,15 +41,7 @@ export const TextField = forwardRef<TextInput, TextFieldProps>(function TextFiel
           </Text>
         ) : null}
       </View>
-      {error ? (
-        <Text variant="caption" tone="danger" role="alert">
-          {error}
-        </Text>
-      ) : hint ? (
-        <Text variant="caption" tone="muted">
-          {hint}
-        </Text>
-      ) : null}
+      <FieldMessage error={error} hint={hint} />
     </View>
   );
 });
