@@ -76,6 +76,17 @@ export function viewerFigures(viewer: Account, block: Block): ViewerFigures {
 /** The block as the grower entered it: the base a PATCH is merged into. */
 export function blockInputOf(b: Block): BlockInput {
   return {
+    ...enteredFields(b),
+    forageMethod: b.forageMethod,
+    ...(b.forageMethod === 'direct' ? { lbDmPerAcre: b.lbDmPerAcre } : {}),
+    ...(b.forageMethod === 'samples' && b.forageSamples ? { forageSamples: b.forageSamples } : {}),
+    ...(b.forageMethod === 'height' && b.forageHeight ? { forageHeight: b.forageHeight } : {}),
+  };
+}
+
+/** What the grower entered apart from the forage measurement: the same in the stored input and in every view. */
+function enteredFields(b: Block) {
+  return {
     name: b.name,
     crop: b.crop,
     acres: b.acres,
@@ -83,10 +94,6 @@ export function blockInputOf(b: Block): BlockInput {
     latitude: b.latitude,
     longitude: b.longitude,
     timeZone: b.timeZone,
-    forageMethod: b.forageMethod,
-    ...(b.forageMethod === 'direct' ? { lbDmPerAcre: b.lbDmPerAcre } : {}),
-    ...(b.forageMethod === 'samples' && b.forageSamples ? { forageSamples: b.forageSamples } : {}),
-    ...(b.forageMethod === 'height' && b.forageHeight ? { forageHeight: b.forageHeight } : {}),
     targetUtilizationPct: b.targetUtilizationPct,
     residualHeightIn: b.residualHeightIn,
     windowStart: b.windowStart,
@@ -125,30 +132,11 @@ export async function blockViews(ctx: ServiceContext, viewer: Account, blocks: B
       id: b.id,
       status: b.status,
       owner: owner ? partyOf(owner) : { id: b.ownerId, name: 'Unknown grower', businessName: null },
-      name: b.name,
-      crop: b.crop,
-      acres: b.acres,
-      placeName: b.placeName,
-      latitude: b.latitude,
-      longitude: b.longitude,
-      timeZone: b.timeZone,
+      ...enteredFields(b),
       forageMethod: b.forageMethod,
       lbDmPerAcre: b.lbDmPerAcre,
       forageSamples: b.forageSamples,
       forageHeight: b.forageHeight,
-      targetUtilizationPct: b.targetUtilizationPct,
-      residualHeightIn: b.residualHeightIn,
-      windowStart: b.windowStart,
-      windowEnd: b.windowEnd,
-      outBy: b.outBy,
-      harvestDate: b.harvestDate,
-      sprayRecords: b.sprayRecords,
-      waterOnSite: b.waterOnSite,
-      perimeterFence: b.perimeterFence,
-      truckAccess: b.truckAccess,
-      speciesAllowed: b.speciesAllowed,
-      youngPlantings: b.youngPlantings,
-      notes: b.notes,
       earliestSafeDate: figures.span.earliestSafeDate,
       grazeFrom: figures.span.from,
       grazeUntil: figures.span.until,
