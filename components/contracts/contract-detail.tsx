@@ -5,28 +5,16 @@ import type { PartyView } from '@/lib/schemas/block';
 import { formatCents } from '@/lib/money';
 import { formatDay, formatDayRange, formatNumber, formatWholeDays } from '@/lib/format';
 import { useLayout } from '@/hooks/use-layout';
-import { Card, Notice, Text } from '@/components/ui';
-import { colors, radius, space } from '@/components/ui/theme';
+import { Card, Figure, Notice, Text } from '@/components/ui';
+import type { FigureProps } from '@/components/ui/figure';
+import { space } from '@/components/ui/theme';
 import { formatRate } from '@/components/bids/bid-terms';
 import { UtilisationMeter } from '@/components/bids/utilisation-meter';
 import { ContractStatusBadge } from './contract-status';
 
-function Term({ label, value, detail, testID, wide, stacked }: { label: string; value: string; detail?: string; testID?: string; wide?: boolean; stacked?: boolean }) {
-  return (
-    <View style={[styles.term, wide && styles.termWide, stacked && styles.termStacked]}>
-      <Text variant="caption" tone="muted">
-        {label}
-      </Text>
-      <Text variant="bodyStrong" testID={testID}>
-        {value}
-      </Text>
-      {detail ? (
-        <Text variant="caption" tone="muted">
-          {detail}
-        </Text>
-      ) : null}
-    </View>
-  );
+/** One agreed term: the shared Figure tile, three abreast on a wide screen, two on a phone, or one per row. */
+function Term({ wide, stacked, ...figure }: FigureProps & { wide?: boolean; stacked?: boolean }) {
+  return <Figure {...figure} style={[styles.term, wide && styles.termWide, stacked && styles.termStacked]} />;
 }
 
 function partyName(p: PartyView): string {
@@ -132,7 +120,7 @@ const styles = StyleSheet.create({
   card: { gap: space.md },
   grid: { flexDirection: 'row', flexWrap: 'wrap', gap: space.sm },
   // Two terms a row on a phone, three beside the side column on a wide screen.
-  term: { flexGrow: 1, flexBasis: '45%', padding: space.md, borderRadius: radius.md, backgroundColor: colors.paper, gap: 2 },
+  term: { flexBasis: '45%' },
   termWide: { flexBasis: '30%' },
   termStacked: { flexBasis: 'auto', flexGrow: 0 },
   parties: { gap: space.sm },

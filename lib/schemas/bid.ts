@@ -73,14 +73,8 @@ export interface BidInput {
 /** A rule of the block that a bid breaks, at the bid field to fix ("startDate"). */
 export type BidConflict = StayConflict;
 
-export interface BidView {
-  id: string;
-  blockId: string;
-  status: BidStatus;
-  grazier: PartyView & {
-    /** Contracts this grazier has completed on Fieldfold (their record). */
-    completedContracts: number;
-  };
+/** The terms of a bid as the API returns them; a contract carries the same terms, copied at award. */
+export interface BidTermsView {
   basis: ChargeBasis;
   /** Canonical decimal text ("0.18", "22.50"). */
   rate: string;
@@ -91,6 +85,16 @@ export interface BidView {
   startDate: string;
   endDate: string;
   services: BidService[];
+}
+
+export interface BidView extends BidTermsView {
+  id: string;
+  blockId: string;
+  status: BidStatus;
+  grazier: PartyView & {
+    /** Contracts this grazier has completed on Fieldfold (their record). */
+    completedContracts: number;
+  };
   note: string | null;
   /** The bid on a common footing (lib/grazing/bid-compare normaliseBid with the block's current figures). */
   normalised: NormalisedBid;

@@ -1,7 +1,5 @@
-import type { ChargeBasis } from '../money';
-import type { FlockSpecies } from '../grazing/flock-intake';
 import type { NormalisedBid } from '../grazing/bid-compare';
-import type { BidService, FlockClass } from './bid';
+import type { BidTermsView } from './bid';
 import type { BlockSummary, PartyView } from './block';
 
 // A contract is born when a grower awards a bid: the agreed terms are copied from the bid and the block at
@@ -11,7 +9,7 @@ import type { BlockSummary, PartyView } from './block';
 export const CONTRACT_STATUSES = ['to-sign', 'signed', 'completed', 'cancelled'] as const;
 export type ContractStatus = (typeof CONTRACT_STATUSES)[number];
 
-export interface ContractView {
+export interface ContractView extends BidTermsView {
   id: string;
   status: ContractStatus;
   blockId: string;
@@ -19,16 +17,7 @@ export interface ContractView {
   block: BlockSummary;
   grower: PartyView;
   grazier: PartyView;
-  basis: ChargeBasis;
-  rate: string;
-  headCount: number;
-  species: FlockSpecies;
-  animalClass: FlockClass;
-  bodyWeightLb: number;
-  startDate: string;
-  endDate: string;
   outBy: string;
-  services: BidService[];
   /** Block figures at award time, the basis of the estimate below. */
   acres: number;
   lbDmPerAcre: number;
