@@ -78,7 +78,7 @@ export function AmendmentForm({ contract }: { contract: ContractView }) {
         validationSchema={amendmentSchema}
         validate={(v) => {
           if (v.headCount == null) return { headCount: `Give a head count (it is ${formatNumber(contract.headCount)} now)` };
-          if (Object.keys(amendmentBody(contract, v)).length === 1) return { reason: v.reason.trim() ? 'Change at least one term: as typed, the terms stay the same' : undefined };
+          if (v.reason.trim() && Object.keys(amendmentBody(contract, v)).length === 1) return { reason: 'Change at least one term: as typed, the terms stay the same' };
           return {};
         }}
         onSubmit={async (v, helpers) => {
