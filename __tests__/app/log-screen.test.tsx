@@ -42,7 +42,7 @@ const contract = contractFixture();
 const LOG_URL = `/api/contracts/${contract.id}/log`;
 
 const moveIn = entryFixture({ clientId: 'c-in-20jan-0001', kind: 'move', at: '2027-01-20T07:30:00-08:00', change: 600, paddock: 'Rows 1–20' });
-const log = (over: Partial<ContractLog> = {}): ContractLog => ({ items: [moveIn], figures: figuresFixture(), savedAt: null, ...over });
+const log = (over: Partial<ContractLog> = {}): ContractLog => ({ items: [moveIn], figures: figuresFixture(), hasOlder: false, savedAt: null, ...over });
 
 type Answer = { status: number; body?: unknown } | 'no-network';
 

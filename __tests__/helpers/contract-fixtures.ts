@@ -1,6 +1,5 @@
 import { normaliseBid } from '@/lib/grazing/bid-compare';
-import type { ContractDetailView } from '@/hooks/api/contracts';
-import type { LogEntryView, LogFigures } from '@/lib/schemas/contract';
+import type { ContractDetailView, LogEntryRecord, LogFiguresView } from '@/hooks/api/contracts';
 import type { AccountView } from '@/lib/schemas/account';
 
 // An invented contract for the component tests: Kellner Range Sheep's 600 dry ewes on the Olsen walnut
@@ -69,7 +68,7 @@ export function contractFixture(over: Partial<ContractDetailView> = {}): Contrac
   };
 }
 
-export function entryFixture(over: Partial<LogEntryView> & Pick<LogEntryView, 'clientId' | 'kind' | 'at'>): LogEntryView {
+export function entryFixture(over: Partial<LogEntryRecord> & Pick<LogEntryRecord, 'clientId' | 'kind' | 'at'>): LogEntryRecord {
   return {
     id: `srv-${over.clientId}`,
     change: null,
@@ -91,7 +90,7 @@ export function entryFixture(over: Partial<LogEntryView> & Pick<LogEntryView, 'c
 }
 
 /** Figures as the server would give them for 600 head in since Jan 20 07:30, counted to Jan 22 08:00 (48.5 h). */
-export function figuresFixture(over: Partial<LogFigures> = {}): LogFigures {
+export function figuresFixture(over: Partial<LogFiguresView> = {}): LogFiguresView {
   return {
     headNow: 600,
     headDaysSoFar: 1212.5,

@@ -6,7 +6,7 @@ import { space } from '@/components/ui/theme';
 import { FormDateField } from '@/components/form/form-date-field';
 import { FormTextField } from '@/components/form/form-text-field';
 import { applyServerErrors, FormError } from '@/components/form/form-error';
-import { useProposeAmendment, type PendingAmendmentView } from '@/hooks/api/contracts';
+import { useCloseAmendment, useProposeAmendment, type AmendmentView } from '@/hooks/api/contracts';
 import { formatDay, formatNumber } from '@/lib/format';
 import { formatMoment } from '@/lib/local-time';
 import { amendmentSchema, type AmendmentInput, type ContractView } from '@/lib/schemas/contract';
@@ -16,31 +16,50 @@ import { formatRate, RATE_UNIT } from '@/lib/terms';
 const AMENDABLE = ['headCount', 'startDate', 'endDate', 'outBy', 'rate'] as const;
 type Amendable = (typeof AMENDABLE)[number];
 
-const LABEL: Record<Amendable, string> = { headCount: 'Head count', startDate: 'Animals in', endDate: 'Animals out', outBy: 'Out by (before harvest)', rate: 'Rate' };
-
-function shown(c: Pick<ContractView, 'basis'>, field: Amendable, value: unknown): string {
-  if (value == null) return '—';
-  if (field === 'headCount') return `${formatNumber(value as number)} head`;
-  if (field === 'rate') return formatRate(c.basis, String(value));
-  return formatDay(String(value));
-}
-
-/** A proposed change of terms: what changes from what, why, and who asked. Both parties sign the new terms. */
-export function PendingAmendment({ contract, amendment }: { contract: ContractView; amendment: PendingAmendmentView }) {
-  const changed = AMENDABLE.filter((f) => amendment.changes[f] !== undefined);
-  const who = amendment.proposedBy === 'grower' ? contract.grower : contract.grazier;
+/**
+ * A proposed change of terms: each term from → to, why, who asked, who has signed the new version. The
+ * proposer may withdraw it and the other party decline it; once both sign, it replaces the terms.
+ */
+export function PendingAmendment({ contract, amendment, side }: { contract: ContractView; amendment: AmendmentView; side: 'grower' | 'grazier' | null }) {
+  const mine = side === amendment.proposedBy;
+  const close = useCloseAmendment(contract.id, amendment.id, mine ? 'withdraw' : 'decline');
+  const signed = (party: 'grower' | 'grazier') => amendment.signatures.find((s) => s.party === party);
   return (
-    <Notice tone="caution" title="Change of terms proposed">
+    <Notice tone="caution" title={`Change of terms proposed (version ${amendment.version})`}>
       <View style={styles.changes} testID="pending-amendment">
-        {changed.map((f) => (
-          <Text key={f} variant="caption">
-            {LABEL[f]}: {shown(contract, f, contract[f])} → <Text variant="label">{shown(contract, f, amendment.changes[f])}</Text>
+        {amendment.changes.map((c) => (
+          <Text key={c.field} variant="caption">
+            {c.label}: {c.from} → <Text variant="label">{c.to}</Text>
           </Text>
         ))}
         <Text variant="caption">“{amendment.reason}”</Text>
         <Text variant="caption" tone="muted">
-          Proposed by {who.businessName ?? who.name}, {formatMoment(amendment.proposedAt, contract.timeZone)}. Both of you sign the changed terms for them to apply.
+          Proposed by {amendment.proposedByName}, {formatMoment(amendment.createdAt, contract.timeZone)}. Until both of you sign it, the signed terms stand.
         </Text>
+        {(['grower', 'grazier'] as const).map((p) => {
+          const s = signed(p);
+          return (
+            <Text key={p} variant="caption" tone={s ? 'ok' : 'caution'}>
+              {p === 'grower' ? 'Grower' : 'Grazier'}: {s ? `✓ signed as “${s.typedName}”, ${formatMoment(s.signedAt, contract.timeZone)}` : 'not signed yet'}
+            </Text>
+          );
+        })}
+        {side ? (
+          <View style={styles.row}>
+            <Button
+              title={mine ? 'Withdraw the change' : 'Decline the change'}
+              variant="secondary"
+              compact
+              loading={close.isPending}
+              onPress={() => close.mutate({})}
+            />
+          </View>
+        ) : null}
+        {close.error ? (
+          <Text variant="caption" tone="danger" role="alert">
+            {close.error.message}
+          </Text>
+        ) : null}
       </View>
     </Notice>
   );

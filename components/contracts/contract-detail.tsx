@@ -4,6 +4,7 @@ import type { ContractStatus } from '@/lib/schemas/contract';
 import { formatCents } from '@/lib/money';
 import { formatDay, formatDayRange, formatNumber, formatWholeDays } from '@/lib/format';
 import { GENERAL_GRAZING_CAUTIONS } from '@/lib/grazing/general-cautions';
+import { formatMoment } from '@/lib/local-time';
 import { pendingAmendmentOf, signOffOf, type ContractDetailView } from '@/hooks/api/contracts';
 import { useLayout } from '@/hooks/use-layout';
 import { Button, Card, Figure, Notice, Text } from '@/components/ui';
@@ -41,12 +42,18 @@ export function ContractDetail({ contract, viewerId, viewerName }: { contract: C
   const { isWide } = useLayout();
   const router = useRouter();
   const n = contract.normalised;
-  const side = sideOf(contract, viewerId);
+  // The server says what the viewer may do (`viewer`); the local rules stand in for a view without it.
+  const facts = contract.viewer;
+  const side = facts?.party ?? sideOf(contract, viewerId);
   const next = nextStep(contract, side);
   const amendment = pendingAmendmentOf(contract);
   const signOff = signOffOf(contract);
   const cautions = contract.cautions ?? GENERAL_GRAZING_CAUTIONS;
-  const mustSign = contract.status === 'to-sign' && !!side && !!contract.termsHash && !currentSignature(contract, side);
+  // With a change of terms pending, what is signed is the amended version, under its own fingerprint.
+  const signingHash = amendment?.termsHash ?? contract.termsHash;
+  const mustSign = !!signingHash && (facts ? facts.mustSign : contract.status === 'to-sign' && !!side && !currentSignature(contract, side));
+  const canAmend = facts ? facts.canAmend : !!side && AMENDABLE.has(contract.status) && !amendment;
+  const canCancel = facts ? facts.canCancel : !!side && CANCELLABLE.has(contract.status);
 
   const terms = (
     <Card style={styles.card}>
@@ -92,7 +99,7 @@ export function ContractDetail({ contract, viewerId, viewerName }: { contract: C
     </Card>
   );
 
-  const signPanel = mustSign ? <SignPanel contractId={contract.id} termsHash={contract.termsHash!} signerName={viewerName} /> : null;
+  const signPanel = mustSign ? <SignPanel contractId={contract.id} termsHash={signingHash!} signerName={viewerName} amended={!!amendment} /> : null;
 
   const cautionCard = (
     <Card style={styles.card}>
@@ -115,10 +122,10 @@ export function ContractDetail({ contract, viewerId, viewerName }: { contract: C
   ) : null;
 
   const changes =
-    side && (AMENDABLE.has(contract.status) || CANCELLABLE.has(contract.status)) ? (
+    canAmend || canCancel ? (
       <View style={styles.col}>
-        {AMENDABLE.has(contract.status) ? <AmendmentForm contract={contract} /> : null}
-        {CANCELLABLE.has(contract.status) ? <CancelContract contractId={contract.id} /> : null}
+        {canAmend ? <AmendmentForm contract={contract} /> : null}
+        {canCancel ? <CancelContract contractId={contract.id} /> : null}
       </View>
     ) : null;
 
@@ -136,7 +143,12 @@ export function ContractDetail({ contract, viewerId, viewerName }: { contract: C
           {next.text}
         </Text>
       </Notice>
-      {amendment ? <PendingAmendment contract={contract} amendment={amendment} /> : null}
+      {amendment ? <PendingAmendment contract={contract} amendment={amendment} side={side} /> : null}
+      {contract.cancellation ? (
+        <Notice tone="info" title={`Cancelled by ${contract.cancellation.byName}, ${formatMoment(contract.cancellation.at, contract.timeZone)}`}>
+          {`“${contract.cancellation.reason}”`}
+        </Notice>
+      ) : null}
     </View>
   );
 

@@ -3,7 +3,7 @@ import { CONTRACT_STATUSES, CONTRACT_STATUS_LABELS } from '@/lib/schemas/contrac
 import { useContracts } from '@/hooks/api/contracts';
 import { useActiveRole, useSession } from '@/hooks/auth/session';
 import { useLayout } from '@/hooks/use-layout';
-import { EmptyState, ErrorState, LoadingState, Notice, Text } from '@/components/ui';
+import { Button, EmptyState, ErrorState, LoadingState, Notice, Text } from '@/components/ui';
 import { space } from '@/components/ui/theme';
 import { ContractCard } from './contract-card';
 import { nextStep, sideOf } from './next-step';
@@ -17,7 +17,7 @@ export function ContractList() {
 
   if (contracts.isPending) return <LoadingState label="Loading your contracts…" />;
   if (contracts.isError) return <ErrorState message={contracts.error.message} onRetry={() => void contracts.refetch()} />;
-  if (contracts.data.length === 0) {
+  if (contracts.items.length === 0) {
     return (
       <EmptyState title="No contracts yet">
         {role === 'grazier'
@@ -26,8 +26,8 @@ export function ContractList() {
       </EmptyState>
     );
   }
-  const groups = CONTRACT_STATUSES.map((status) => ({ status, items: contracts.data.filter((c) => c.status === status) })).filter((g) => g.items.length > 0);
-  const mine = contracts.data.filter((c) => nextStep(c, sideOf(c, user?.id)).mine).length;
+  const groups = CONTRACT_STATUSES.map((status) => ({ status, items: contracts.items.filter((c) => c.status === status) })).filter((g) => g.items.length > 0);
+  const mine = contracts.items.filter((c) => nextStep(c, sideOf(c, user?.id)).mine).length;
   return (
     <View style={styles.groups}>
       {mine > 0 ? (
@@ -49,6 +49,9 @@ export function ContractList() {
           </View>
         </View>
       ))}
+      {contracts.hasNextPage ? (
+        <Button title="Show more contracts" variant="secondary" loading={contracts.isFetchingNextPage} onPress={() => void contracts.fetchNextPage()} />
+      ) : null}
     </View>
   );
 }

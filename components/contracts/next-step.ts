@@ -29,11 +29,13 @@ const headDays = (n: number | null | undefined) => `${formatNumber(n ?? 0, 1)} h
 export function nextStep(c: ContractDetailView, side: Side | null): NextStep {
   const other: Side = side === 'grower' ? 'grazier' : 'grower';
   const signOff = signOffOf(c);
+  const amendment = pendingAmendmentOf(c);
+  if (c.viewer?.mustSign) return { mine: true, text: amendment ? 'Read the proposed change, then sign the new terms' : 'Read the terms and cautions, then sign' };
   switch (c.status) {
     case 'to-sign': {
       if (!side) return { mine: false, text: 'Waiting for both signatures' };
-      const change = pendingAmendmentOf(c) ? 'Read the proposed change, then sign the new terms' : 'Read the terms and cautions, then sign';
-      if (!currentSignature(c, side)) return { mine: true, text: change };
+      const change = amendment ? 'Read the proposed change, then sign the new terms' : 'Read the terms and cautions, then sign';
+      if (!c.viewer && !currentSignature(c, side)) return { mine: true, text: change };
       return { mine: false, text: `Waiting for the ${other} to sign` };
     }
     case 'signed':

@@ -6,16 +6,17 @@ import { Button, Card, Notice, Text } from '@/components/ui';
 import { colors, radius, space } from '@/components/ui/theme';
 import { FormTextField } from '@/components/form/form-text-field';
 import { applyServerErrors, FormError } from '@/components/form/form-error';
-import { signOffOf, useSignOff, type ContractDetailView } from '@/hooks/api/contracts';
+import { signOffOf, useSignOff, type ContractDetailView, type SignOffRound } from '@/hooks/api/contracts';
 import { formatDay, formatNumber } from '@/lib/format';
 import { formatMoment } from '@/lib/local-time';
-import { signOffSchema, type LogFigures, type SignOffInput, type SignOffView } from '@/lib/schemas/contract';
+import type { HeadDaysByDay } from '@/lib/grazing/head-days';
+import { signOffSchema, type SignOffInput } from '@/lib/schemas/contract';
 import type { Side } from './next-step';
 
 const hd = (n: number | null | undefined) => formatNumber(n ?? 0, 4);
 
 /** The head-days of each day at the block, from the log, with the total the grazier proposes. */
-export function DailyBreakdown({ figures }: { figures: LogFigures }) {
+export function DailyBreakdown({ byDay, total }: { byDay: readonly HeadDaysByDay[]; total: number }) {
   return (
     <View style={styles.table} role="table" aria-label="Head-days by day">
       <View style={[styles.tr, styles.thead]} role="row">
@@ -26,7 +27,7 @@ export function DailyBreakdown({ figures }: { figures: LogFigures }) {
           Head-days
         </Text>
       </View>
-      {figures.byDay.map((d) => (
+      {byDay.map((d) => (
         <View key={d.date} style={styles.tr} role="row">
           <Text style={styles.cellDay}>{formatDay(d.date)}</Text>
           <Text style={styles.cellNum}>{hd(d.headDays)}</Text>
@@ -37,7 +38,7 @@ export function DailyBreakdown({ figures }: { figures: LogFigures }) {
           Total
         </Text>
         <Text variant="bodyStrong" style={styles.cellNum} testID="breakdown-total">
-          {hd(figures.headDaysSoFar)}
+          {hd(total)}
         </Text>
       </View>
     </View>
@@ -45,7 +46,7 @@ export function DailyBreakdown({ figures }: { figures: LogFigures }) {
 }
 
 /** The agreed figure, locked: who proposed, who countered, who approved, and when. */
-function Agreed({ s, timeZone }: { s: SignOffView; timeZone: string }) {
+function Agreed({ s, timeZone }: { s: SignOffRound; timeZone: string }) {
   const when = (at: string | null) => (at ? formatMoment(at, timeZone) : '—');
   return (
     <Card style={[styles.card, styles.locked]} aria-label="Agreed head-days">
@@ -64,7 +65,9 @@ function Agreed({ s, timeZone }: { s: SignOffView; timeZone: string }) {
         </Text>
       ) : null}
       <Text variant="caption">
-        Agreed by {s.grazierName} and {s.growerName ?? 'the grower'}, {when(s.agreedAt)}
+        {s.agreedBy === 'grazier'
+          ? `Agreed when ${s.grazierName} accepted the counter, ${when(s.agreedAt)}`
+          : `Agreed when ${s.growerName ?? 'the grower'} approved, ${when(s.agreedAt)}`}
       </Text>
       <Text variant="caption" tone="muted">
         The invoice bills these head-days. The log is closed; it stays as the record.
@@ -93,10 +96,11 @@ function useSend(contractId: string) {
   return { send, formError };
 }
 
+/** The server counts the head-days from the log itself; the button shows the figure it will find. */
 function Propose({ contractId, headDays, again }: { contractId: string; headDays: number; again: boolean }) {
   const { send, formError } = useSend(contractId);
   return (
-    <Formik<Values> initialValues={{ action: 'propose', headDays, comment: '' }} enableReinitialize validationSchema={signOffSchema} onSubmit={send}>
+    <Formik<Values> initialValues={{ action: 'propose', comment: '' }} validationSchema={signOffSchema} onSubmit={send}>
       {({ handleSubmit, isSubmitting }) => (
         <>
           <FormTextField name="comment" label="Note to the grower (optional)" multiline numberOfLines={2} placeholder={again ? 'What you changed in the log' : 'e.g. Out a day early: the residual reached 3 in.'} />
@@ -184,7 +188,7 @@ function AcceptCounter({ contractId, counter }: { contractId: string; counter: n
 export interface SignOffPanelProps {
   contract: ContractDetailView;
   /** The server's figures of the log (never ones that include entries still on a phone). */
-  figures: LogFigures;
+  figures: { headNow: number; headDaysSoFar: number; byDay: HeadDaysByDay[] };
   side: Side;
   /** Entries on this phone not yet sent: the head-days cannot be proposed until the server has them. */
   waitingOnPhone: number;
@@ -203,10 +207,12 @@ export function SignOffPanel({ contract, figures, side, waitingOnPhone }: SignOf
 
   if (s?.status === 'agreed' || (s && ['agreed', 'invoiced', 'paid'].includes(contract.status))) return <Agreed s={s} timeZone={tz} />;
 
+  // What the grower weighs is the round as proposed; once disputed, the grazier works from the log as it is now.
+  const proposal = s && s.status === 'proposed' && s.byDay ? s : null;
   const breakdown = (
     <Card style={styles.card}>
-      <Text variant="heading">From the log</Text>
-      <DailyBreakdown figures={figures} />
+      <Text variant="heading">{proposal ? 'Proposed, day by day' : 'From the log'}</Text>
+      <DailyBreakdown byDay={proposal ? proposal.byDay! : figures.byDay} total={proposal ? proposal.proposedHeadDays : figures.headDaysSoFar} />
       <Text variant="caption" tone="muted">
         Head-days are head on the block × time, split at midnight at the block ({tz}); a daylight-saving day counts its 23 or 25 hours.
       </Text>
@@ -242,6 +248,7 @@ export function SignOffPanel({ contract, figures, side, waitingOnPhone }: SignOf
         <Text variant="caption" tone="muted">
           By {s.grazierName}, {formatMoment(s.proposedAt, tz)}
         </Text>
+        {s.comment ? <Text>“{s.comment}”</Text> : null}
         {side === 'grower' ? <GrowerAnswer contractId={contract.id} proposed={s.proposedHeadDays} /> : <Text>Waiting for the grower to approve or dispute.</Text>}
       </Card>
     );

@@ -33,15 +33,15 @@ function CautionsTick() {
  * Signing: the full name typed, the cautions ticked as read, and the fingerprint of the terms on screen
  * sent along, so the server refuses (409) if the terms changed while the signer was reading them.
  */
-export function SignPanel({ contractId, termsHash, signerName, onSigned }: { contractId: string; termsHash: string; signerName: string; onSigned?: () => void }) {
+export function SignPanel({ contractId, termsHash, signerName, amended, onSigned }: { contractId: string; termsHash: string; signerName: string; amended?: boolean; onSigned?: () => void }) {
   const sign = useSignContract(contractId);
   const [formError, setFormError] = useState<string | null>(null);
   const [stale, setStale] = useState(false);
   return (
     <Card style={styles.card} aria-label="Sign the contract">
-      <Text variant="heading">Sign the contract</Text>
+      <Text variant="heading">{amended ? 'Sign the changed terms' : 'Sign the contract'}</Text>
       <Text variant="caption" tone="muted">
-        You sign the terms with fingerprint {shortHash(termsHash)}. Typing your full name here is your signature; both parties’ signatures, names and times go on
+        You sign the {amended ? 'changed terms' : 'terms'} with fingerprint {shortHash(termsHash)}. Typing your full name here is your signature; both parties’ signatures, names and times go on
         the record.
       </Text>
       <Formik<SignValues>
@@ -71,7 +71,7 @@ export function SignPanel({ contractId, termsHash, signerName, onSigned }: { con
             ) : (
               <FormError message={formError} />
             )}
-            <Button title="Sign the contract" large loading={isSubmitting} onPress={() => handleSubmit()} />
+            <Button title={amended ? 'Sign the changed terms' : 'Sign the contract'} large loading={isSubmitting} onPress={() => handleSubmit()} />
           </>
         )}
       </Formik>

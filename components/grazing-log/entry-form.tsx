@@ -31,6 +31,8 @@ type Values = LogEntryInput;
 
 export interface EntryFormProps {
   mode: EntryMode;
+  /** Who writes: losses are the grazier's to record (a grower describes what they saw in the note). */
+  side?: 'grower' | 'grazier';
   contract: Pick<ContractView, 'headCount' | 'timeZone' | 'startDate' | 'outBy'>;
   /** Animals on the block now, by the log (prefills "out" and the tally). */
   headNow: number;
@@ -170,8 +172,8 @@ export function EntryForm(props: EntryFormProps) {
                 <PercentField name="bareGroundPct" label="Bare ground" />
                 <FormTick name="waterChecked" label="Water checked" />
                 <FormTick name="fenceChecked" label="Fence checked" />
-                <FormHeadStepper name="losses" label="Losses" hint="Animals dead or missing since the last entry" />
-                <FormTextField name="note" label="Health and other notes" multiline numberOfLines={3} style={styles.note} />
+                {props.side !== 'grower' ? <FormHeadStepper name="losses" label="Losses" hint="Animals dead or missing since the last entry; log a move out for them too" /> : null}
+                <FormTextField name="note" label={props.side === 'grower' ? 'What you saw' : 'Health and other notes'} multiline numberOfLines={3} style={styles.note} />
               </>
             ) : null}
             <FormMomentField name="at" label="Time" timeZone={contract.timeZone} hint={`Time at the block (${contract.timeZone}); left alone it is the moment you save`} />

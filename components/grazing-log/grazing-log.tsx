@@ -11,7 +11,7 @@ import { useLayout } from '@/hooks/use-layout';
 import { useOnline } from '@/hooks/use-online';
 import { formatNumber } from '@/lib/format';
 import { formatMoment } from '@/lib/local-time';
-import type { ContractStatus } from '@/lib/schemas/contract';
+import type { ContractStatus, LogEntryKind } from '@/lib/schemas/contract';
 import { ContractStatusBadge } from '@/components/contracts/contract-status';
 import { EntryForm, ENTRY_MODE_LABELS, modeOf, type EntryMode } from './entry-form';
 import { LogChart } from './log-chart';
@@ -26,13 +26,18 @@ export interface GrazingLogProps {
   contract: ContractDetailView;
   log: ContractLog;
   side: 'grower' | 'grazier';
+  /** Reads the next (older) page of entries. */
+  onShowOlder?: () => void;
+  loadingOlder?: boolean;
 }
+
+const MODES_OF_KIND: Record<LogEntryKind, EntryMode[]> = { move: ['in', 'out'], tally: ['tally'], observation: ['observation'] };
 
 /**
  * The grazing log for the truck: four big entry buttons for the grazier (the grower adds observations
  * only), what waits on the phone, the running figures and chart, and the record itself.
  */
-export function GrazingLog({ contract, log, side }: GrazingLogProps) {
+export function GrazingLog({ contract, log, side, onShowOlder, loadingOlder }: GrazingLogProps) {
   const online = useOnline();
   const router = useRouter();
   const { isWide } = useLayout();
@@ -42,11 +47,16 @@ export function GrazingLog({ contract, log, side }: GrazingLogProps) {
   const [saved, setSaved] = useState<string | null>(null);
 
   const rows = useMemo(() => mergeLog(log.items, queue.items, contract), [log.items, queue.items, contract]);
-  const { figures, queuedMoves, problem } = useMemo(() => figuresWithQueue(contract, log.items, log.figures, queue.items, Date.now()), [contract, log.items, log.figures, queue.items]);
+  const { figures, queuedMoves, problem } = useMemo(
+    () => figuresWithQueue(contract, log.items, log.figures, queue.items, Date.now(), !log.hasOlder),
+    [contract, log.items, log.figures, log.hasOlder, queue.items],
+  );
   const lastPaddock = rows.find((r) => r.entry.paddock)?.entry.paddock ?? null;
-  const writable = WRITABLE.has(contract.status);
-  const modes: EntryMode[] = side === 'grazier' ? ['in', 'out', 'tally', 'observation'] : ['observation'];
-  const anyMoves = rows.some((r) => r.entry.kind === 'move');
+  // The server says which kinds the viewer may add now (`canWrite`); the contract's status stands in without it.
+  const kinds: LogEntryKind[] = log.canWrite ?? (WRITABLE.has(contract.status) ? (side === 'grazier' ? ['move', 'tally', 'observation'] : ['observation']) : []);
+  const writable = kinds.length > 0;
+  const modes = kinds.flatMap((k) => MODES_OF_KIND[k]);
+  const anyMoves = rows.some((r) => r.entry.kind === 'move' && !r.entry.voided);
 
   const open = (m: EntryMode) => {
     setSaved(null);
@@ -90,15 +100,22 @@ export function GrazingLog({ contract, log, side }: GrazingLogProps) {
         ? 'The log opens once both of you have signed the contract.'
         : contract.status === 'cancelled'
           ? 'This contract was cancelled; the log is kept as it stands.'
-          : 'The head-days are agreed: the log is closed and kept as the record.'}
+          : ['agreed', 'invoiced', 'paid'].includes(contract.status)
+            ? 'The head-days are agreed: the log is closed and kept as the record.'
+            : 'The log is read-only for you now.'}
     </Notice>
   );
+  const movesPaused =
+    side === 'grazier' && contract.status === 'sign-off' && writable && !kinds.includes('move') ? (
+      <Notice tone="info">The grower is reviewing the head-days you proposed: moves wait until they answer. Tallies and observations go in as usual.</Notice>
+    ) : null;
 
   const form =
     mode && writable ? (
       <EntryForm
         key={fixing?.entry.clientId ?? mode}
         mode={mode}
+        side={side}
         contract={contract}
         headNow={figures.headNow}
         lastPaddock={lastPaddock}
@@ -167,7 +184,8 @@ export function GrazingLog({ contract, log, side }: GrazingLogProps) {
   const entries = (
     <Card style={styles.card}>
       <Text variant="heading">The log</Text>
-      <LogEntries rows={rows} timeZone={contract.timeZone} />
+      <LogEntries rows={rows} contractId={contract.id} timeZone={contract.timeZone} side={side} canVoid={writable} />
+      {log.hasOlder ? <Button title="Show older entries" variant="secondary" large loading={loadingOlder} onPress={onShowOlder} /> : null}
       <Text variant="caption" tone="muted">
         Times at the block ({contract.timeZone}). Entries after the animals-out-by date are kept and flagged: the record shows what happened.
       </Text>
@@ -177,6 +195,7 @@ export function GrazingLog({ contract, log, side }: GrazingLogProps) {
   const writing = (
     <>
       {actions}
+      {movesPaused}
       {saved ? (
         <Notice tone="ok" title="Kept">
           {saved}

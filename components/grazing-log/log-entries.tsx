@@ -1,9 +1,15 @@
+import { useState } from 'react';
 import { StyleSheet, View } from 'react-native';
-import { Text } from '@/components/ui';
+import { Formik } from 'formik';
+import { Button, Text } from '@/components/ui';
 import { colors, radius, space } from '@/components/ui/theme';
+import { FormTextField } from '@/components/form/form-text-field';
+import { applyServerErrors, FormError } from '@/components/form/form-error';
 import { localDateKey, parseIsoInstant } from '@/lib/dates';
 import { formatDay } from '@/lib/format';
-import { formatClock } from '@/lib/local-time';
+import { formatClock, formatMoment } from '@/lib/local-time';
+import { cancelContractSchema } from '@/lib/schemas/contract';
+import { useVoidLogEntry } from '@/hooks/api/contracts';
 import type { LogRow } from '@/hooks/offline/log-with-queue';
 import { entryDetail, entryTitle } from './log-words';
 
@@ -12,43 +18,100 @@ function dayOf(at: string, timeZone: string): string {
   return t === null ? at.slice(0, 10) : localDateKey(t, timeZone);
 }
 
-function Row({ row, timeZone }: { row: LogRow; timeZone: string }) {
+// The reason for voiding follows the same rule as any other reason the product asks for (3–1000 characters).
+const voidSchema = cancelContractSchema;
+
+/** "This entry is wrong": voided with a reason, it stays in the record struck out and counts for nothing. */
+function VoidEntry({ contractId, entryId, onDone }: { contractId: string; entryId: string; onDone: () => void }) {
+  const voidIt = useVoidLogEntry(contractId, entryId);
+  const [formError, setFormError] = useState<string | null>(null);
+  return (
+    <Formik
+      initialValues={{ reason: '' }}
+      validationSchema={voidSchema}
+      onSubmit={async (v, helpers) => {
+        setFormError(null);
+        try {
+          await voidIt.mutateAsync({ reason: v.reason.trim() });
+          onDone();
+        } catch (err) {
+          setFormError(applyServerErrors(err, helpers));
+        }
+      }}
+    >
+      {({ handleSubmit, isSubmitting }) => (
+        <View style={styles.void}>
+          <FormTextField name="reason" label="What is wrong with it" placeholder="e.g. Counted twice: the move in was at 8:10, not 7:10." />
+          <FormError message={formError} />
+          <View style={styles.actions}>
+            <Button title="Void the entry" variant="danger" large loading={isSubmitting} onPress={() => handleSubmit()} />
+            <Button title="Keep it" variant="secondary" large onPress={onDone} />
+          </View>
+        </View>
+      )}
+    </Formik>
+  );
+}
+
+function Row({ row, contractId, timeZone, voidable }: { row: LogRow; contractId: string; timeZone: string; voidable: boolean }) {
   const e = row.entry;
-  const flagged = e.flags.length > 0;
+  const [voiding, setVoiding] = useState(false);
+  const flagged = e.flags.length > 0 && !e.voided;
   const detail = entryDetail(e);
   return (
-    <View style={[styles.row, flagged && styles.flagged, row.queued && styles.queued]} testID={`log-entry-${e.clientId}`}>
+    <View style={[styles.row, flagged && styles.flagged, row.queued && styles.queued, !!e.voided && styles.voided]} testID={`log-entry-${e.clientId}`}>
       <Text variant="label" tone="muted" style={styles.time}>
         {formatClock(e.at, timeZone)}
       </Text>
       <View style={styles.body}>
-        <Text variant="bodyStrong">
+        <Text variant="bodyStrong" style={e.voided ? styles.struck : undefined}>
           {entryTitle(e)}
-          {e.author === 'grower' ? <Text variant="caption" tone="clay"> · grower's observation</Text> : null}
+          {e.author === 'grower' ? <Text variant="caption" tone="clay"> · grower's observation{e.authorName ? ` (${e.authorName})` : ''}</Text> : null}
         </Text>
-        {detail ? <Text variant="caption">{detail}</Text> : null}
+        {detail ? (
+          <Text variant="caption" style={e.voided ? styles.struck : undefined}>
+            {detail}
+          </Text>
+        ) : null}
         {e.note ? (
           <Text variant="caption" tone="muted">
             “{e.note}”
           </Text>
         ) : null}
-        {e.flags.map((f) => (
-          <Text key={f} variant="caption" tone="danger" aria-label={`Flagged: ${f}`}>
-            ⚑ Flagged: {f}
+        {e.voided ? (
+          <Text variant="caption" tone="danger">
+            Voided {formatMoment(e.voided.at, timeZone)}: {e.voided.reason}. It counts for nothing.
           </Text>
-        ))}
+        ) : null}
+        {flagged
+          ? e.flags.map((f) => (
+              <Text key={f} variant="caption" tone="danger" aria-label={`Flagged: ${f}`}>
+                ⚑ Flagged: {f}
+              </Text>
+            ))
+          : null}
         {row.queued ? (
           <Text variant="caption" tone="caution">
             {row.queued.state === 'sent' ? `Sent ${formatClock(row.queued.sentAt!, timeZone)}` : 'On this phone, waiting to send'}
           </Text>
+        ) : null}
+        {voidable && !row.queued && !e.voided ? (
+          voiding ? (
+            <VoidEntry contractId={contractId} entryId={e.id} onDone={() => setVoiding(false)} />
+          ) : (
+            <Button title="Wrong? Void it" variant="quiet" compact onPress={() => setVoiding(true)} style={styles.voidButton} />
+          )
         ) : null}
       </View>
     </View>
   );
 }
 
-/** The record, newest first, one heading per day at the block; flagged entries marked, waiting ones shaded. */
-export function LogEntries({ rows, timeZone }: { rows: LogRow[]; timeZone: string }) {
+/**
+ * The record, newest first, one heading per day at the block: flagged entries marked, voided ones struck
+ * out, waiting ones shaded. The author of an entry may void it while the log is open.
+ */
+export function LogEntries({ rows, contractId, timeZone, side, canVoid }: { rows: LogRow[]; contractId: string; timeZone: string; side: 'grower' | 'grazier'; canVoid: boolean }) {
   if (rows.length === 0) {
     return (
       <Text tone="muted" testID="log-empty">
@@ -70,7 +133,7 @@ export function LogEntries({ rows, timeZone }: { rows: LogRow[]; timeZone: strin
             {formatDay(d.day)}
           </Text>
           {d.rows.map((r) => (
-            <Row key={r.entry.clientId} row={r} timeZone={timeZone} />
+            <Row key={r.entry.clientId} row={r} contractId={contractId} timeZone={timeZone} voidable={canVoid && r.entry.author === side} />
           ))}
         </View>
       ))}
@@ -84,6 +147,11 @@ const styles = StyleSheet.create({
   row: { flexDirection: 'row', gap: space.md, padding: space.md, borderRadius: radius.md, backgroundColor: colors.surface, borderWidth: 1, borderColor: colors.line },
   flagged: { borderColor: colors.danger, borderLeftWidth: 4 },
   queued: { backgroundColor: colors.cautionWash, borderStyle: 'dashed', borderColor: colors.cautionLine },
+  voided: { backgroundColor: colors.surfaceSunk },
+  struck: { textDecorationLine: 'line-through', color: colors.inkMuted },
   time: { width: 72 },
   body: { flex: 1, gap: 2 },
+  void: { gap: space.sm, marginTop: space.xs },
+  voidButton: { alignSelf: 'flex-start', marginLeft: -space.md },
+  actions: { flexDirection: 'row', gap: space.sm, flexWrap: 'wrap' },
 });

@@ -2,7 +2,7 @@ import { StyleSheet, View } from 'react-native';
 import { Card, Figure, Notice, Text } from '@/components/ui';
 import { colors, radius, space } from '@/components/ui/theme';
 import { formatNumber } from '@/lib/format';
-import type { LogFigures } from '@/lib/schemas/contract';
+import type { LogFiguresView } from '@/hooks/api/contracts';
 
 function days(n: number) {
   return `${formatNumber(n)} day${Math.abs(n) === 1 ? '' : 's'}`;
@@ -35,7 +35,7 @@ function TakeBar({ eatenLb, targetTakeLb }: { eatenLb: number; targetTakeLb: num
  * The running figures of the log: head now, head-days so far, forage eaten against the target, days left,
  * and the server's warnings. `queuedMoves` says the phone included moves still waiting to send.
  */
-export function LogFiguresPanel({ figures, queuedMoves, problem }: { figures: LogFigures; queuedMoves: number; problem: string | null }) {
+export function LogFiguresPanel({ figures, queuedMoves, problem }: { figures: LogFiguresView; queuedMoves: number; problem: string | null }) {
   const f = figures;
   return (
     <Card style={styles.card} aria-label="Running figures">
@@ -53,9 +53,9 @@ export function LogFiguresPanel({ figures, queuedMoves, problem }: { figures: Lo
         </Text>
       ) : null}
       {problem ? <Notice tone="caution">{problem}</Notice> : null}
-      {f.warnings.map((w) => (
-        <Notice key={w} tone="caution">
-          {w}
+      {(f.alerts ?? f.warnings.map((text) => ({ key: text, tone: 'caution' as const, text }))).map((a) => (
+        <Notice key={a.key} tone={a.tone}>
+          {a.text}
         </Notice>
       ))}
     </Card>

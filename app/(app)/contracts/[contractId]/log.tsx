@@ -9,14 +9,20 @@ export default function GrazingLogScreen() {
   const contract = useContract(contractId);
   const log = useContractLog(contractId);
   const { user } = useSession();
-  if (contract.isPending || log.isPending) return <LoadingState label="Opening the grazing log…" />;
   if (contract.isError) return <ErrorState message={contract.error.message} onRetry={() => contract.refetch()} />;
   if (log.isError) return <ErrorState message={log.error.message} onRetry={() => log.refetch()} />;
+  if (contract.isPending || !log.log) return <LoadingState label="Opening the grazing log…" />;
   const c = contract.data;
   return (
     <Screen title="Grazing log" subtitle={`${c.block.name} · ${c.grazier.businessName ?? c.grazier.name}`} back={{ label: 'Contract', href: `/contracts/${c.id}` }}>
       <Stack.Screen options={{ title: `Grazing log · ${c.block.name} · Fieldfold` }} />
-      <GrazingLog contract={c} log={log.data} side={c.grazier.id === user?.id ? 'grazier' : 'grower'} />
+      <GrazingLog
+        contract={c}
+        log={log.log}
+        side={c.grazier.id === user?.id ? 'grazier' : 'grower'}
+        onShowOlder={() => void log.fetchNextPage()}
+        loadingOlder={log.isFetchingNextPage}
+      />
     </Screen>
   );
 }

@@ -12,15 +12,15 @@ export default function SignOffScreen() {
   const log = useContractLog(contractId);
   const queue = useQueuedEntries(contractId ?? '');
   const { user } = useSession();
-  if (contract.isPending || log.isPending) return <LoadingState label="Opening the sign-off…" />;
   if (contract.isError) return <ErrorState message={contract.error.message} onRetry={() => contract.refetch()} />;
   if (log.isError) return <ErrorState message={log.error.message} onRetry={() => log.refetch()} />;
+  if (contract.isPending || !log.log) return <LoadingState label="Opening the sign-off…" />;
   const c = contract.data;
   const side = sideOf(c, user?.id) ?? 'grower';
   return (
     <Screen title="Sign-off" subtitle={`${c.block.name} · the head-days both of you agree`} back={{ label: 'Contract', href: `/contracts/${c.id}` }} narrow>
       <Stack.Screen options={{ title: `Sign-off · ${c.block.name} · Fieldfold` }} />
-      <SignOffPanel contract={c} figures={log.data.figures} side={side} waitingOnPhone={queue.items.filter((q) => q.state !== 'sent').length} />
+      <SignOffPanel contract={c} figures={log.log.figures} side={side} waitingOnPhone={queue.items.filter((q) => q.state !== 'sent').length} />
     </Screen>
   );
 }
