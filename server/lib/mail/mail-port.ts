@@ -1,10 +1,13 @@
 // Outgoing mail as a port: the services say what to send, an adapter sends it. The in-memory adapter
-// (memory-mail.ts) serves development and tests; the SMTP adapter comes with the payments issue.
+// (memory-mail.ts) serves tests and a server without SMTP_PORT; smtp-mail.ts sends through nodemailer.
 
 export interface MailMessage {
   to: string;
   subject: string;
   text: string;
+  /** The same message as HTML (compose.ts builds both parts); mail clients show it when they can. */
+  html?: string;
+  replyTo?: string;
 }
 
 export interface MailPort {
