@@ -120,6 +120,18 @@ describe('the SMTP adapter and the mail sink', () => {
     expect(await messages()).toEqual({ total: 0, count: 0, start: 0, items: [] });
   });
 
+  it('When the inbox page\'s own form posts /clear, then the inbox is emptied; a post from another site is refused', async () => {
+    await mail.send({ to: 'wade@calder.example', subject: 'To be cleared', text: 'x' });
+    const host = `127.0.0.1:${sink.uiPort}`;
+    expect((await ui().post('/clear').set('Origin', 'https://elsewhere.example')).status).toBe(403);
+    expect((await ui().post('/clear').set('Origin', 'null')).status).toBe(403);
+    expect((await messages()).total).toBe(1);
+    const ok = await ui().post('/clear').set('Origin', `http://${host}`);
+    expect(ok.status).toBe(303);
+    expect(ok.headers.location).toBe('/');
+    expect((await messages()).total).toBe(0);
+  });
+
   it('When the inbox page is opened, then it lists the message and shows it with the HTML part sandboxed and every value escaped', async () => {
     await mail.send({ to: 'greta@calder.example', ...bidMail() });
     await mail.send({ to: 'greta@calder.example', subject: '<script>alert(1)</script>', text: 'Plain only <b>not bold</b>' });
@@ -146,6 +158,16 @@ describe('the SMTP adapter and the mail sink', () => {
     expect(plainPage.text).not.toContain('<iframe');
     expect(plainPage.text).toContain('Plain only &lt;b&gt;not bold&lt;/b&gt;');
     expect((await ui().get('/messages/nope')).status).toBe(404);
+  });
+
+  it('When more messages arrive than the sink keeps, then the oldest go first', async () => {
+    await sink.close();
+    sink = await startMailSink({ smtpPort: 0, uiPort: 0, host: '127.0.0.1', maxMessages: 2 });
+    mail = new SmtpMail({ host: '127.0.0.1', port: sink.smtpPort, from: FROM });
+    for (const n of [1, 2, 3]) await mail.send({ to: 'wade@calder.example', subject: `Message ${n}`, text: 'x' });
+    const list = await messages();
+    expect(list.total).toBe(2);
+    expect(list.items.map((m) => m.Parsed.Subject)).toEqual(['Message 3', 'Message 2']);
   });
 
   it('When the sink restarts on the same data folder, then the inbox is still there', async () => {

@@ -59,8 +59,10 @@ export function sinkApp(store: MailStore, log: (line: string) => void): Express 
   app.disable('x-powered-by');
   const fontsDir = findFontsDir();
 
+  // same-origin, not no-referrer: under no-referrer browsers send `Origin: null` with the inbox's own
+  // "Empty inbox" form, and /clear could not tell it from a cross-site post.
   app.use((_req, res, next) => {
-    res.set({ 'X-Content-Type-Options': 'nosniff', 'Referrer-Policy': 'no-referrer', 'Cache-Control': 'no-store' });
+    res.set({ 'X-Content-Type-Options': 'nosniff', 'Referrer-Policy': 'same-origin', 'Cache-Control': 'no-store' });
     next();
   });
 

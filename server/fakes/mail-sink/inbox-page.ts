@@ -54,6 +54,7 @@ main{display:block}
 .meta{font-size:13px;line-height:18px;color:${colors.inkMuted};display:flex;flex-wrap:wrap;gap:0 12px}
 .snippet{font-size:14px;line-height:19px;color:${colors.inkMuted};display:block;margin-top:2px;overflow-wrap:anywhere}
 .empty{padding:32px 16px;color:${colors.inkMuted}}
+.pick{display:none;padding:24px;color:${colors.inkMuted}}
 .pager{display:flex;justify-content:space-between;padding:12px 16px}
 .message{padding:16px;min-width:0}
 .message h2{margin:0 0 12px;font:700 22px/28px Bitter,Georgia,serif;overflow-wrap:anywhere}
@@ -73,6 +74,7 @@ summary{cursor:pointer;font-weight:600}
   .panes>nav{overflow-y:auto;border-right:1px solid ${colors.lineStrong}}
   .panes>.message{overflow-y:auto;padding:24px}
   .back{display:none}
+  .pick{display:block}
 }
 @media (max-width:${breakpoints.wide - 1}px){
   .panes.reading>nav{display:none}
@@ -82,7 +84,7 @@ summary{cursor:pointer;font-weight:600}
 function layout(title: string, body: string, total: number, fonts: boolean): string {
   return `<!doctype html>
 <html lang="en"><head><meta charset="utf-8"><meta name="viewport" content="width=device-width, initial-scale=1">
-<meta name="referrer" content="no-referrer"><title>${escapeHtml(title)}</title><style>${styles(fonts)}</style></head>
+<meta name="referrer" content="same-origin"><title>${escapeHtml(title)}</title><style>${styles(fonts)}</style></head>
 <body><header><h1><a href="/">Fieldfold mail<span class="sub">Local sink: nothing here left this machine</span></a></h1>
 <nav><span>${total} ${total === 1 ? 'message' : 'messages'}</span><a href="/api/v2/messages">JSON</a>
 <form method="post" action="/clear"><button class="danger" type="submit"${total === 0 ? ' disabled' : ''}>Empty inbox</button></form></nav></header>
@@ -128,7 +130,7 @@ ${html}${text}
 
 export function inboxPage(p: { items: SinkMessage[]; total: number; start: number; open: SinkMessage | null; fonts: boolean }): string {
   const body = `<main class="panes${p.open ? ' reading' : ''}"><nav aria-label="Messages">${listHtml(p.items, p.total, p.start, p.open?.ID ?? null)}</nav>
-${p.open ? messageHtml(p.open) : ''}</main>`;
+${p.open ? messageHtml(p.open) : p.total > 0 ? '<p class="pick">Choose a message to read it.</p>' : ''}</main>`;
   return layout(p.open ? `${p.open.Parsed.Subject || '(no subject)'} · Fieldfold mail` : 'Fieldfold mail', body, p.total, p.fonts);
 }
 
