@@ -22,7 +22,7 @@ export interface AppDeps {
   log?: (msg: string) => void;
   /** Where block photos are stored (DATA_DIR/uploads in production, a temp folder in tests); outside the web root. */
   uploadsDir: string;
-  /** Outgoing mail; defaults to an in-memory outbox (the SMTP adapter comes with the payments issue). */
+  /** Outgoing mail; defaults to an in-memory outbox (server/index.ts passes the SMTP adapter when SMTP_PORT is set). */
   mail?: MailPort;
   /** Clock in epoch ms, for "today" at a block; tests fix it. */
   now?: () => number;
