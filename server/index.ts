@@ -6,6 +6,7 @@ import { seedDemoOnce } from './db/seed/demo';
 import { createApp } from './app';
 import type { MailPort } from './lib/mail/mail-port';
 import { MemoryMail } from './lib/mail/memory-mail';
+import { OutboxSender } from './lib/mail/outbox';
 import { SmtpMail } from './lib/mail/smtp-mail';
 
 // config → database (migrations) → demo seed (once) → listen → graceful shutdown.
@@ -21,13 +22,16 @@ async function main() {
   const mail: MailPort = config.smtp
     ? new SmtpMail({ ...config.smtp, from: config.mailFrom })
     : new MemoryMail((msg) => console.log(`[mail] ${JSON.stringify(msg.subject)}`), 500);
+  const outbox = new OutboxSender(dataSource, mail, Date.now, console.error);
+  outbox.start();
   const app = createApp({
     dataSource,
     tokens: { secret: config.tokenSecret, ttl: config.tokenTtl },
     webDir: config.webDir,
     corsOrigin: config.corsOrigin,
     uploadsDir: path.join(config.dataDir, 'uploads'),
-    mail,
+    outbox,
+    publicUrl: config.publicUrl,
   });
   const server: Server = app.listen(config.port, config.host, () => {
     const addr = server.address();
@@ -45,6 +49,7 @@ async function main() {
     closing = true;
     console.log(`[fieldfold] ${signal}: closing`);
     server.close(async () => {
+      await outbox.stop();
       await dataSource.destroy();
       process.exit(0);
     });

@@ -2,6 +2,7 @@ import { ValidationError } from 'yup';
 import { isSingleLine, line, paragraphs } from '../../lib/schemas/fields';
 import { registerSchema, profileSchema } from '../../lib/schemas/account';
 import { blockInputSchema } from '../../lib/schemas/block';
+import { cancelContractSchema, signContractSchema } from '../../lib/schemas/contract';
 
 // Every character class a single-line field must refuse, by name, so a failure says which one slipped through.
 const REFUSED: Array<[string, string]> = [
@@ -97,5 +98,12 @@ describe('the shared schemas use it', () => {
     expect(msg).toMatch(/Place must be on one line/);
     expect(msg).toMatch(/Product must be on one line/);
     expect(msg).not.toMatch(/Notes/);
+  });
+
+  it('When a signature\'s typed name holds a line break, then it is refused; a cancel reason may hold line breaks but no tab', async () => {
+    const sign = await messageOf(signContractSchema, { typedName: 'Greta Olsen\r\nBcc: x@y.example', termsHash: 'a'.repeat(64) });
+    expect(sign).toMatch(/Your full name must be on one line/);
+    expect(await messageOf(cancelContractSchema, { reason: 'Flood on the lower block.\nRoad closed.' })).toBeNull();
+    expect(await messageOf(cancelContractSchema, { reason: 'Flood\ton the lower block.' })).toBe('Reason may hold line breaks, but no tabs or other control characters');
   });
 });

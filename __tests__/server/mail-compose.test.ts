@@ -1,60 +1,51 @@
-import { appLink, composeMail, DEFAULT_FOOTER } from '../../server/lib/mail/compose';
-import { escapeHtml } from '../../server/lib/mail/escape-html';
+import { composeMail, escapeHtml } from '../../server/lib/mail/compose';
+import { appLinks } from '../../server/lib/mail/links';
 
-const PUBLIC_URL = 'http://localhost:8080';
+// The one mail layout (server/lib/mail/compose.ts): values people typed arrive as data, are shown as text in
+// the HTML part (never as markup), stay verbatim in the text part, and never turn into a header.
+
+const links = appLinks('http://localhost:8080/');
+const hostile = `<script>alert("x")</script> & 'Sons' <img src=x onerror=alert(1)>`;
+const escaped = '&lt;script&gt;alert(&quot;x&quot;)&lt;/script&gt; &amp; &#39;Sons&#39; &lt;img src=x onerror=alert(1)&gt;';
 
 describe('composeMail', () => {
-  const hostile = `<script>alert("x")</script> & 'Sons' <img src=x onerror=alert(1)>`;
+  const mail = composeMail({
+    to: 'greta@calder.example',
+    subject: `New bid on ${hostile}`,
+    greeting: `Hello ${hostile},`,
+    paragraphs: [`Haas Brush Goats bid on ${hostile}.`, 'Gate code at the office.\nCall first.'],
+    facts: [[`Block ${hostile}`, `${hostile} 10 800 head-days`]],
+    caution: `Animals out by 2027-03-01 <b>before bloom</b>`,
+    action: { label: `Compare the bids on ${hostile}`, url: `${links.block('b-42')}?tab=bids&sort=total` },
+  });
+  const html = mail.html ?? '';
 
-  it('When a block name and notes hold markup, then the HTML part shows them as text and the text part keeps them verbatim', () => {
-    const mail = composeMail(
-      {
-        subject: `New bid on ${hostile}`,
-        greeting: 'Hello Greta,',
-        paragraphs: [`Haas Brush Goats bid on ${hostile}.`, 'Gate code at the office.\nCall first.', ['First <b>item</b>', 'Second & last']],
-        action: { label: 'Compare the bids', path: '/blocks/b-42' },
-      },
-      { publicUrl: PUBLIC_URL },
-    );
-    expect(mail.html).not.toContain('<script>');
-    expect(mail.html).not.toContain('<img');
-    expect(mail.html).not.toContain('<b>item');
-    expect(mail.html).toContain('&lt;script&gt;alert(&quot;x&quot;)&lt;/script&gt; &amp; &#39;Sons&#39; &lt;img src=x onerror=alert(1)&gt;');
-    expect(mail.html).toContain(`<title>New bid on ${escapeHtml(hostile)}</title>`);
-    expect(mail.html).toContain('Gate code at the office.<br>Call first.');
-    expect(mail.html).toContain('<li>First &lt;b&gt;item&lt;/b&gt;</li><li>Second &amp; last</li>');
-    expect(mail.text).toBe(
-      `Hello Greta,\n\nHaas Brush Goats bid on ${hostile}.\n\nGate code at the office.\nCall first.\n\n- First <b>item</b>\n- Second & last\n\n` +
-        `Compare the bids:\nhttp://localhost:8080/blocks/b-42\n\n--\nFieldfold\n${DEFAULT_FOOTER}\n`,
-    );
-    expect(mail.subject).toBe(`New bid on ${hostile}`);
+  it('When names, facts, the caution and the action label hold markup, then the HTML part shows each as escaped text', () => {
+    expect(html).not.toMatch(/<script|<img|<b>/);
+    // greeting, paragraph, fact label, fact value, action label: each escaped where it stands.
+    expect(html.split(escaped).length - 1).toBe(5);
+    expect(html).toContain('Animals out by 2027-03-01 &lt;b&gt;before bloom&lt;/b&gt;');
   });
 
-  it('When there is an action, then both parts carry the same absolute link into the app, as a button and as text', () => {
-    const mail = composeMail({ subject: 'Contract ready', paragraphs: ['Sign it.'], action: { label: 'Open the contract', path: '/contracts/c-1?tab=terms&x=1' } }, { publicUrl: PUBLIC_URL });
-    expect(mail.text).toContain('Open the contract:\nhttp://localhost:8080/contracts/c-1?tab=terms&x=1\n');
-    // The ampersand is escaped in the attribute; a browser reads it back as "&".
-    expect(mail.html.match(/href="([^"]+)"/g)).toEqual(['href="http://localhost:8080/contracts/c-1?tab=terms&amp;x=1"', 'href="http://localhost:8080/contracts/c-1?tab=terms&amp;x=1"']);
-    expect(mail.html).toContain('>Open the contract</a>');
+  it('When a paragraph holds a line break, then the HTML part shows it as <br> and the text part keeps it', () => {
+    expect(html).toContain('Gate code at the office.<br>Call first.');
+    expect(mail.text).toContain('Gate code at the office.\nCall first.');
   });
 
-  it('When there is no action and no greeting, then neither part invents one', () => {
-    const mail = composeMail({ subject: 'Block withdrawn', paragraphs: ['Nothing more is needed from you.'], footer: 'Fieldfold, Calder Valley.' }, { publicUrl: PUBLIC_URL });
-    expect(mail.html).not.toContain('<a ');
-    expect(mail.text).toBe('Nothing more is needed from you.\n\n--\nFieldfold\nFieldfold, Calder Valley.\n');
-  });
-});
-
-describe('appLink', () => {
-  it('When PUBLIC_URL has a base path, then links go under it', () => {
-    expect(appLink('https://fieldfold.example/app/', '/blocks/1')).toBe('https://fieldfold.example/app/blocks/1');
-    expect(appLink('https://fieldfold.example', '/blocks/1')).toBe('https://fieldfold.example/blocks/1');
+  it('When there is an action, then both parts carry the same absolute link into the app, escaped in the attribute', () => {
+    expect(html).toContain('href="http://localhost:8080/blocks/b-42?tab=bids&amp;sort=total"');
+    expect(mail.text).toContain('http://localhost:8080/blocks/b-42?tab=bids&sort=total');
   });
 
-  it('When a path would leave the app (protocol-relative, absolute, backslash, relative), then it throws', () => {
-    for (const bad of ['//evil.example/x', 'https://evil.example/', '/\\evil.example', 'blocks/1', 'javascript:alert(1)']) {
-      expect(() => appLink(PUBLIC_URL, bad)).toThrow(/App link/);
-    }
+  it('When typed values hold markup, then the text part carries them verbatim (text is not HTML)', () => {
+    expect(mail.text).toContain(`Hello ${hostile},`);
+    expect(mail.text).toContain(`Haas Brush Goats bid on ${hostile}.`);
+  });
+
+  it('When a subject carries CR LF or other control characters, then the composed subject is one line', () => {
+    const m = composeMail({ to: 'a@b.example', subject: 'Block changed: North\r\nBcc: thief@elsewhere.example\u2028\tx', paragraphs: ['x'] });
+    expect(m.subject).toBe('Block changed: North Bcc: thief@elsewhere.example x');
+    expect(m.to).toBe('a@b.example');
   });
 });
 
@@ -62,5 +53,12 @@ describe('escapeHtml', () => {
   it('When text holds the five HTML-special characters, then each becomes its entity and nothing else changes', () => {
     expect(escapeHtml(`a&b<c>d"e'f é 🐐`)).toBe('a&amp;b&lt;c&gt;d&quot;e&#39;f é 🐐');
     expect(escapeHtml('&amp;')).toBe('&amp;amp;');
+  });
+});
+
+describe('appLinks', () => {
+  it('When a record id holds URL syntax, then the link still points at that record in the app', () => {
+    expect(links.block('a/../../x?y#z')).toBe('http://localhost:8080/blocks/a%2F..%2F..%2Fx%3Fy%23z');
+    expect(appLinks('https://fieldfold.example/app').contract('c 1')).toBe('https://fieldfold.example/app/contracts/c%201');
   });
 });

@@ -6,7 +6,11 @@ import request from 'supertest';
 import { startMailSink, type MailSink } from '../../server/fakes/mail-sink';
 import type { SinkMessage } from '../../server/fakes/mail-sink/message';
 import { composeMail } from '../../server/lib/mail/compose';
+import { appLinks } from '../../server/lib/mail/links';
 import { SmtpMail } from '../../server/lib/mail/smtp-mail';
+import { openDatabase } from '../../server/db/data-source';
+import { inTransaction } from '../../server/lib/db/transaction';
+import { OUTBOX_BACKOFF_MS, OutboxSender, pendingMail, queueMail } from '../../server/lib/mail/outbox';
 
 // Real mail end to end on loopback: the nodemailer adapter speaks SMTP to the sink (smtp-server on port 0),
 // and the tests read what arrived through the sink's JSON API and inbox page, as a developer would.
@@ -35,21 +39,21 @@ async function messages(query = ''): Promise<{ total: number; count: number; sta
   return res.body;
 }
 
+const links = appLinks('http://localhost:8080');
 const bidMail = () =>
-  composeMail(
-    {
-      subject: 'New bid on North bench <walnut> middles',
-      greeting: 'Hello Greta,',
-      paragraphs: ['Kellner Range Sheep bid on North bench <walnut> middles: 600 sheep, 18 days.', ['Fencing', 'Guardian dogs']],
-      action: { label: 'Compare the bids', path: '/blocks/b-42' },
-    },
-    { publicUrl: 'http://localhost:8080' },
-  );
+  composeMail({
+    to: 'greta@calder.example',
+    subject: 'New bid on North bench <walnut> middles',
+    greeting: 'Hello Greta,',
+    paragraphs: ['Kellner Range Sheep bid on North bench <walnut> middles: 600 sheep, 18 days.'],
+    facts: [['Services', 'fencing, guardian dogs']],
+    action: { label: 'Compare the bids', url: links.block('b-42') },
+  });
 
 describe('the SMTP adapter and the mail sink', () => {
   it('When the adapter sends a composed message, then GET /api/v2/messages has it in the catchers\' shape with its text and HTML parts', async () => {
     const composed = bidMail();
-    await mail.send({ to: 'greta@calder.example', replyTo: 'wade@calder.example', ...composed });
+    await mail.send({ ...composed, id: 'outbox-row-7f3a' });
 
     const list = await messages();
     expect(list).toMatchObject({ total: 1, count: 1, start: 0 });
@@ -64,7 +68,9 @@ describe('the SMTP adapter and the mail sink', () => {
     const h = m.Content.Headers;
     expect(h.From).toEqual(['Fieldfold <no-reply@fieldfold.localhost>']);
     expect(h.To).toEqual(['greta@calder.example']);
-    expect(h['Reply-To']).toEqual(['wade@calder.example']);
+    // The outbox row id is the Message-ID, the same on every attempt.
+    expect(h['Message-ID']).toEqual(['<outbox-row-7f3a@fieldfold.localhost>']);
+    expect(m.Parsed.MessageID).toBe('<outbox-row-7f3a@fieldfold.localhost>');
     expect(h.Subject).toEqual(['New bid on North bench <walnut> middles']);
     expect(h['Content-Type'][0]).toMatch(/^multipart\/alternative; boundary=/);
     expect(m.Content.Size).toBe(Buffer.byteLength(m.Raw.Data));
@@ -94,10 +100,11 @@ describe('the SMTP adapter and the mail sink', () => {
     expect(m.Parsed.Text?.trim()).toBe('Hello.');
   });
 
-  it('When a recipient or reply-to is not one plain address, then the adapter refuses it before any SMTP', async () => {
+  it('When a recipient is not one plain address or the id is not an atom, then the adapter refuses it before any SMTP', async () => {
     await expect(mail.send({ to: 'greta@calder.example\r\nBcc: thief@elsewhere.example', subject: 'x', text: 'x' })).rejects.toThrow('Mail to must be one plain address');
     await expect(mail.send({ to: 'greta@calder.example, thief@elsewhere.example', subject: 'x', text: 'x' })).rejects.toThrow('Mail to must be one plain address');
-    await expect(mail.send({ to: 'greta@calder.example', replyTo: 'Wade <wade@calder.example>', subject: 'x', text: 'x' })).rejects.toThrow('Mail replyTo must be one plain address');
+    await expect(mail.send({ to: 'Greta <greta@calder.example>', subject: 'x', text: 'x' })).rejects.toThrow('Mail to must be one plain address');
+    await expect(mail.send({ id: 'x>\r\nBcc: thief@elsewhere.example', to: 'greta@calder.example', subject: 'x', text: 'x' })).rejects.toThrow('Mail id must be');
     expect((await messages()).total).toBe(0);
   });
 
@@ -133,7 +140,7 @@ describe('the SMTP adapter and the mail sink', () => {
   });
 
   it('When the inbox page is opened, then it lists the message and shows it with the HTML part sandboxed and every value escaped', async () => {
-    await mail.send({ to: 'greta@calder.example', ...bidMail() });
+    await mail.send(bidMail());
     await mail.send({ to: 'greta@calder.example', subject: '<script>alert(1)</script>', text: 'Plain only <b>not bold</b>' });
     const [plain, composed] = (await messages()).items;
 
@@ -195,6 +202,32 @@ describe('the SMTP adapter and the mail sink', () => {
     } finally {
       for (const s of sockets) s.destroy();
       await new Promise<void>((r) => silent.close(() => r()));
+    }
+  });
+
+  it('When the sink is down, then the outbox keeps the message and delivers it through the adapter once the sink is back', async () => {
+    const ds = await openDatabase(':memory:');
+    const clock = { now: Date.parse('2026-12-01T20:00:00Z') };
+    const logged: string[] = [];
+    const outbox = new OutboxSender(ds, mail, () => clock.now, (l) => logged.push(l));
+    try {
+      await inTransaction(ds, (tx) => queueMail(tx, [bidMail()], clock.now));
+      const port = sink.smtpPort;
+      await sink.close();
+      expect(await outbox.drain()).toBe(0);
+      expect(await pendingMail(ds)).toBe(1);
+      expect(logged.join('\n')).toMatch(/"New bid on North bench <walnut> middles" not sent \(attempt 1\)/);
+
+      sink = await startMailSink({ smtpPort: port, uiPort: 0, host: '127.0.0.1', dataDir });
+      clock.now += OUTBOX_BACKOFF_MS[0];
+      expect(await outbox.drain()).toBe(1);
+      expect(await pendingMail(ds)).toBe(0);
+      const [m] = (await messages()).items;
+      expect(m.Parsed.Subject).toBe('New bid on North bench <walnut> middles');
+      expect(m.Content.Headers['Message-ID'][0]).toMatch(/^<[0-9a-f-]{36}@fieldfold\.localhost>$/);
+    } finally {
+      await outbox.stop();
+      await ds.destroy();
     }
   });
 });

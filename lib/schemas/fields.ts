@@ -18,7 +18,7 @@ export function bool(label: string) {
   return yup.boolean().strict().typeError(`${label} must be true or false`);
 }
 
-/** Text that is trimmed by the sender (no leading or trailing spaces) and not blank. */
+/** Text that is trimmed by the sender (no leading or trailing spaces). Fields use `line()` or `paragraphs()` below, which add the control-character rule. */
 export function text(label: string, max: number) {
   return yup
     .string()

@@ -1,5 +1,5 @@
 import { breakpoints, colors } from '../../../components/ui/theme';
-import { escapeHtml } from '../../lib/mail/escape-html';
+import { escapeHtml } from '../../lib/mail/compose';
 import type { SinkMessage } from './message';
 
 // The sink's inbox page: plain HTML rendered on the server, no script. Every value from a message is escaped;

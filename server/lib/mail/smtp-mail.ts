@@ -14,6 +14,8 @@ export interface SmtpMailOptions {
 
 // One plain address, no display name, no list: anything else is a bug in the caller, not a mail to try.
 const PLAIN_ADDRESS = /^[^\s@<>(),;:"\\[\]]+@[^\s@<>(),;:"\\[\]]+$/;
+// The outbox row id becomes the left half of the Message-ID, so it must be an atom (RFC 5322 dot-atom text).
+const MESSAGE_ID_PART = /^[A-Za-z0-9._-]{1,100}$/;
 
 /**
  * Sends through an SMTP server with nodemailer: the local mail sink under `npm start`, a provider's relay
@@ -43,13 +45,13 @@ export class SmtpMail implements MailPort {
   }
 
   async send(msg: MailMessage): Promise<void> {
-    for (const [field, value] of [['to', msg.to], ['replyTo', msg.replyTo]] as const) {
-      if (value !== undefined && !PLAIN_ADDRESS.test(value)) throw new Error(`Mail ${field} must be one plain address`);
-    }
+    if (!PLAIN_ADDRESS.test(msg.to)) throw new Error('Mail to must be one plain address');
+    if (msg.id !== undefined && !MESSAGE_ID_PART.test(msg.id)) throw new Error('Mail id must be letters, digits, dots, dashes or underscores');
     const info = await this.transport.sendMail({
       from: this.options.from,
       to: { name: '', address: msg.to },
-      replyTo: msg.replyTo === undefined ? undefined : { name: '', address: msg.replyTo },
+      // The same id on every attempt, so a message the outbox sends twice after a crash is one message.
+      messageId: msg.id === undefined ? undefined : `<${msg.id}@${this.options.from.address.split('@')[1]}>`,
       subject: msg.subject,
       text: msg.text,
       html: msg.html,
