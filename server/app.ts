@@ -11,6 +11,9 @@ import { errorHandler, notFoundHandler } from './lib/errors/error-handler';
 import type { MailPort } from './lib/mail/mail-port';
 import { MemoryMail } from './lib/mail/memory-mail';
 import { localPhotoStore } from './lib/storage/photo-store';
+import { localFileStore } from './lib/storage/file-store';
+import type { PdfRenderer } from './lib/pdf/pdf-renderer';
+import { pdfkitRenderer } from './lib/pdf/pdfkit-renderer';
 import type { ServiceContext } from './lib/service-context';
 
 export interface AppDeps {
@@ -22,6 +25,10 @@ export interface AppDeps {
   log?: (msg: string) => void;
   /** Where block photos are stored (DATA_DIR/uploads in production, a temp folder in tests); outside the web root. */
   uploadsDir: string;
+  /** Where generated PDF records are stored (DATA_DIR/documents; a temp folder in tests); outside the web root. */
+  documentsDir: string;
+  /** The PDF renderer; defaults to pdfkit with Fieldfold's fonts. */
+  pdf?: PdfRenderer;
   /** Outgoing mail; defaults to an in-memory outbox (the SMTP adapter comes with the payments issue). */
   mail?: MailPort;
   /** Clock in epoch ms, for "today" at a block; tests fix it. */
@@ -56,6 +63,8 @@ export function createApp(deps: AppDeps): Express {
     now: deps.now ?? Date.now,
     log: deps.log ?? console.error,
     photos: localPhotoStore(deps.uploadsDir),
+    documents: localFileStore(deps.documentsDir),
+    pdf: deps.pdf ?? pdfkitRenderer(),
     tokenSecret: deps.tokens.secret,
   };
   api.use(blocksRouter(market));

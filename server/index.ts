@@ -22,6 +22,7 @@ async function main() {
     webDir: config.webDir,
     corsOrigin: config.corsOrigin,
     uploadsDir: path.join(config.dataDir, 'uploads'),
+    documentsDir: path.join(config.dataDir, 'documents'),
     mail,
   });
   const server: Server = app.listen(config.port, config.host, () => {

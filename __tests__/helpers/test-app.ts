@@ -23,6 +23,7 @@ export interface TestAppOptions {
 export async function makeTestApp(options: TestAppOptions = {}) {
   const dataSource = await openDatabase(':memory:');
   const uploadsDir = fs.mkdtempSync(path.join(os.tmpdir(), 'fieldfold-uploads-'));
+  const documentsDir = fs.mkdtempSync(path.join(os.tmpdir(), 'fieldfold-documents-'));
   const mail = new MemoryMail();
   const clock = { now: TEST_NOW };
   const app = createApp({
@@ -30,6 +31,7 @@ export async function makeTestApp(options: TestAppOptions = {}) {
     tokens: TEST_TOKENS,
     log: options.log ?? (() => {}),
     uploadsDir,
+    documentsDir,
     mail: options.mail ?? mail,
     now: () => clock.now,
   });
@@ -48,6 +50,7 @@ export async function makeTestApp(options: TestAppOptions = {}) {
     /** Everything the app mailed, oldest first. */
     mail,
     uploadsDir,
+    documentsDir,
     /** Moves the app's clock (ISO instant with offset). */
     setNow: (iso: string) => {
       clock.now = Date.parse(iso);
@@ -55,6 +58,7 @@ export async function makeTestApp(options: TestAppOptions = {}) {
     close: async () => {
       await (dataSource as DataSource).destroy();
       fs.rmSync(uploadsDir, { recursive: true, force: true });
+      fs.rmSync(documentsDir, { recursive: true, force: true });
     },
   };
 }

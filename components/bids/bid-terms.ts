@@ -13,13 +13,8 @@ export const BASIS_OPTIONS: ReadonlyArray<{ value: ChargeBasis; label: string }>
 /** What the rate field's unit says for each basis. */
 export const RATE_UNIT: Record<ChargeBasis, string> = { 'head-day': '$ per head-day', acre: '$ per acre', flat: '$ for the job' };
 
-/** "$0.18 per head-day", "$22.50 per acre", "$4,200.00 for the job" — the rate as the grazier wrote it, grouped. */
-export function formatRate(basis: ChargeBasis, rate: string): string {
-  const [whole, frac = ''] = rate.split('.');
-  const grouped = whole.replace(/\B(?=(\d{3})+(?!\d))/g, ',');
-  const money = `$${grouped}.${frac.padEnd(2, '0')}`;
-  return basis === 'head-day' ? `${money} per head-day` : basis === 'acre' ? `${money} per acre` : `${money} for the job`;
-}
+// The rate's words live in lib/ so the invoice and the PDFs say it the same way.
+export { formatRate } from '@/lib/rates';
 
 /** "$0.1800" from normaliseBid's 4-decimal rate text. */
 export function formatHeadDayRate(rate4: string): string {
