@@ -4,6 +4,7 @@ import { GENERAL_GRAZING_CAUTIONS } from '../../../lib/grazing/general-cautions'
 import { HEAD_DAY_DECIMALS } from '../../../lib/grazing/head-days';
 import type { LogDay, LogDayEntry } from '../../../lib/grazing/log-days';
 import { daysBetween } from '../../../lib/day-keys';
+import { parseIsoInstant } from '../../../lib/dates';
 import { formatDay, formatDayRange, formatNumber } from '../../../lib/format';
 import { formatRate } from '../../../lib/rates';
 import { formatClock, formatMoment, shortId } from './format';
@@ -47,8 +48,10 @@ function columnX(i: number): number {
 }
 const COL_X = COLUMNS.map((_, i) => columnX(i));
 
+// Head-days are kept to 0.0001 (lib/grazing/head-days) and billed at that precision: print all of it, so the
+// days on paper add up exactly to the total on paper.
 function headDaysText(v: number): string {
-  return formatNumber(v, 2);
+  return formatNumber(v, HEAD_DAY_DECIMALS);
 }
 
 function yesNo(v: boolean | null | undefined): string {
@@ -325,7 +328,7 @@ export async function renderGrazingLog(data: GrazingLogPdfData): Promise<Buffer>
   const s = new Sheet({
     title: `Grazing log — ${data.block.name} — contract ${shortId(data.contractId)} v${data.version}`,
     subject: `Fieldfold grazing log for contract ${data.contractId}, version ${data.version}`,
-    createdAt: new Date(data.generatedAt),
+    createdAt: new Date(parseIsoInstant(data.generatedAt) ?? Number.NaN),
   });
 
   drawTitleBlock(s, {

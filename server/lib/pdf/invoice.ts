@@ -1,3 +1,4 @@
+import { parseIsoInstant } from '../../../lib/dates';
 import { formatDay, formatDayRange, formatNumber } from '../../../lib/format';
 import { formatCents } from '../../../lib/money';
 import { formatRateAmount } from '../../../lib/rates';
@@ -108,7 +109,7 @@ export async function renderInvoice(data: InvoicePdfData): Promise<Buffer> {
   const s = new Sheet({
     title: `Invoice ${data.number} — ${data.block.name}`,
     subject: `Fieldfold invoice ${data.number} (${data.invoiceId}), version ${data.version}`,
-    createdAt: new Date(data.generatedAt),
+    createdAt: new Date(parseIsoInstant(data.generatedAt) ?? Number.NaN),
   });
 
   drawTitleBlock(s, {

@@ -83,6 +83,7 @@ export class Sheet {
   private cursor: number = MARGIN.top;
 
   constructor(meta: SheetMeta) {
+    if (Number.isNaN(meta.createdAt.getTime())) throw new Error('PDF: the document date is not a valid instant');
     this.doc = new PDFDocument({
       size: 'LETTER',
       margins: { top: MARGIN.top, bottom: MARGIN.bottom, left: MARGIN.x, right: MARGIN.x },
