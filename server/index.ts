@@ -30,6 +30,7 @@ async function main() {
     webDir: config.webDir,
     corsOrigin: config.corsOrigin,
     uploadsDir: path.join(config.dataDir, 'uploads'),
+    documentsDir: path.join(config.dataDir, 'documents'),
     outbox,
     publicUrl: config.publicUrl,
   });
