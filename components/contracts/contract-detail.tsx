@@ -129,7 +129,9 @@ export function ContractDetail({ contract, viewerId, viewerName }: { contract: C
       </View>
     ) : null;
 
-  const leading = (contract.cautions ?? []).filter((c) => c.tone === 'danger');
+  // A spray restriction that ended before the stay began no longer limits it: it stays in the full list only.
+  const spent = (key: string) => key === 'pesticide-restriction' && (contract.restrictions?.earliestSafeDate ?? '9999') <= contract.startDate;
+  const leading = (contract.cautions ?? []).filter((c) => c.tone === 'danger' && !spent(c.key));
   const status = (
     <View style={styles.col}>
       <View style={styles.statusRow}>
@@ -169,14 +171,24 @@ export function ContractDetail({ contract, viewerId, viewerName }: { contract: C
             {changes}
           </View>
         </View>
-      ) : (
+      ) : mustSign ? (
+        // A phone, signing: the terms, then the cautions, then the signatures and the panel.
         <>
           {terms}
-          {mustSign ? cautionCard : null}
+          {cautionCard}
           {signing}
           {signPanel}
           {records}
-          {mustSign ? null : cautionCard}
+          {estimate}
+          {changes}
+        </>
+      ) : (
+        // A phone in the truck: the log first, then the terms and the rest.
+        <>
+          {records}
+          {terms}
+          {signing}
+          {cautionCard}
           {estimate}
           {changes}
         </>

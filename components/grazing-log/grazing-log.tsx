@@ -9,6 +9,7 @@ import { figuresWithQueue, mergeLog } from '@/hooks/offline/log-with-queue';
 import { useQueuedEntries } from '@/hooks/offline/use-log-queue';
 import { useLayout } from '@/hooks/use-layout';
 import { useOnline } from '@/hooks/use-online';
+import { todayIn } from '@/lib/day-keys';
 import { formatNumber } from '@/lib/format';
 import { formatMoment } from '@/lib/local-time';
 import type { ContractStatus, LogEntryKind } from '@/lib/schemas/contract';
@@ -169,6 +170,7 @@ export function GrazingLog({ contract, log, side, onShowOlder, loadingOlder }: G
       <Card>
         <LogChart
           byDay={figures.byDay}
+          today={todayIn(contract.timeZone, Date.now())}
           headCount={contract.headCount}
           startDate={contract.startDate}
           endDate={contract.endDate}
@@ -188,6 +190,7 @@ export function GrazingLog({ contract, log, side, onShowOlder, loadingOlder }: G
       {log.hasOlder ? <Button title="Show older entries" variant="secondary" large loading={loadingOlder} onPress={onShowOlder} /> : null}
       <Text variant="caption" tone="muted">
         Times at the block ({contract.timeZone}). Entries after the animals-out-by date are kept and flagged: the record shows what happened.
+        {writable ? ' Tap an entry you wrote to void it if it is wrong; it stays in the record, struck out.' : ''}
       </Text>
     </Card>
   );

@@ -13,6 +13,8 @@ import type { HeadDaysByDay } from '@/lib/grazing/head-days';
 
 export interface LogChartProps {
   byDay: readonly HeadDaysByDay[];
+  /** Today at the block, marked on both charts when it falls inside them. */
+  today?: string;
   headCount: number;
   startDate: string;
   endDate: string;
@@ -30,6 +32,11 @@ const RIGHT = 8;
 
 function shortDay(key: string) {
   return formatDay(key).replace(/, \d{4}$/, '');
+}
+
+/** Axis figures kept short for a phone: 80,000 → "80k". */
+function axis(v: number): string {
+  return v >= 10_000 ? `${formatNumber(v / 1000)}k` : formatNumber(v);
 }
 
 function niceMax(v: number): number {
@@ -50,7 +57,7 @@ function Plot({ width, label, children }: { width: number; label: string; childr
   );
 }
 
-export function LogChart({ byDay, headCount, startDate, endDate, outBy, eatenLb, headDaysSoFar, targetTakeLb }: LogChartProps) {
+export function LogChart({ byDay, today, headCount, startDate, endDate, outBy, eatenLb, headDaysSoFar, targetTakeLb }: LogChartProps) {
   const [width, setWidth] = useState(320);
   const lastLogged = byDay.length ? byDay[byDay.length - 1].date : startDate;
   const first = byDay.length && byDay[0].date < startDate ? byDay[0].date : startDate;
@@ -77,6 +84,17 @@ export function LogChart({ byDay, headCount, startDate, endDate, outBy, eatenLb,
   const labelEvery = Math.max(1, Math.ceil(dayCount / Math.max(2, Math.floor(innerW / 56))));
   const xLabels = Array.from({ length: dayCount }, (_, i) => addDays(first, i)).filter((_, i) => i % labelEvery === 0);
   const axisText = { fontSize: 11, fontFamily: fonts.body, fill: colors.inkMuted } as const;
+
+  // Drawn first, under the bars and lines.
+  const todayBand =
+    today && today >= first && today <= last ? (
+      <>
+        <Rect x={x(today)} y={TOP} width={slot} height={PLOT_H} fill={colors.skyWash} />
+        <SvgText x={x(today) + slot / 2} y={TOP - 3} textAnchor="middle" {...axisText} fill={colors.sky}>
+          today
+        </SvgText>
+      </>
+    ) : null;
 
   const xAxis = (
     <>
@@ -105,8 +123,9 @@ export function LogChart({ byDay, headCount, startDate, endDate, outBy, eatenLb,
   return (
     <View style={styles.wrap} role="img" aria-label={summary} onLayout={(e) => setWidth(Math.round(e.nativeEvent.layout.width))} testID="log-chart">
       <Plot width={width} label="Head on the block per day">
+        {todayBand}
         <SvgText x={LEFT - 6} y={yHead(headMax) + 4} textAnchor="end" {...axisText}>
-          {formatNumber(headMax)}
+          {axis(headMax)}
         </SvgText>
         <SvgText x={LEFT - 6} y={baseY} textAnchor="end" {...axisText}>
           0
@@ -121,8 +140,9 @@ export function LogChart({ byDay, headCount, startDate, endDate, outBy, eatenLb,
         {xAxis}
       </Plot>
       <Plot width={width} label="Forage eaten so far vs the target take (lb DM)">
+        {todayBand}
         <SvgText x={LEFT - 6} y={yLb(lbMax) + 4} textAnchor="end" {...axisText}>
-          {formatNumber(lbMax)}
+          {axis(lbMax)}
         </SvgText>
         <SvgText x={LEFT - 6} y={baseY} textAnchor="end" {...axisText}>
           0

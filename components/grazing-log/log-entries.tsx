@@ -1,5 +1,5 @@
 import { useState } from 'react';
-import { StyleSheet, View } from 'react-native';
+import { Pressable, StyleSheet, View } from 'react-native';
 import { Formik } from 'formik';
 import { Button, Text } from '@/components/ui';
 import { colors, radius, space } from '@/components/ui/theme';
@@ -55,54 +55,66 @@ function VoidEntry({ contractId, entryId, onDone }: { contractId: string; entryI
 
 function Row({ row, contractId, timeZone, voidable }: { row: LogRow; contractId: string; timeZone: string; voidable: boolean }) {
   const e = row.entry;
+  const [open, setOpen] = useState(false);
   const [voiding, setVoiding] = useState(false);
+  const canVoid = voidable && !row.queued && !e.voided;
   const flagged = e.flags.length > 0 && !e.voided;
   const detail = entryDetail(e);
   return (
     <View style={[styles.row, flagged && styles.flagged, row.queued && styles.queued, !!e.voided && styles.voided]} testID={`log-entry-${e.clientId}`}>
-      <Text variant="label" tone="muted" style={styles.time}>
-        {formatClock(e.at, timeZone)}
-      </Text>
-      <View style={styles.body}>
-        <Text variant="bodyStrong" style={e.voided ? styles.struck : undefined}>
-          {entryTitle(e)}
-          {e.author === 'grower' ? <Text variant="caption" tone="clay"> · grower's observation{e.authorName ? ` (${e.authorName})` : ''}</Text> : null}
+      {/* An entry the viewer wrote opens on a tap to offer voiding; the form sits outside the pressable so typing in it does not close it. */}
+      <Pressable disabled={!canVoid} onPress={() => setOpen((o) => !o)} aria-expanded={canVoid ? open : undefined} style={styles.summary}>
+        <Text variant="label" tone="muted" style={styles.time}>
+          {formatClock(e.at, timeZone)}
         </Text>
-        {detail ? (
-          <Text variant="caption" style={e.voided ? styles.struck : undefined}>
-            {detail}
+        <View style={styles.body}>
+          <Text variant="bodyStrong" style={e.voided ? styles.struck : undefined}>
+            {entryTitle(e)}
+            {e.author === 'grower' ? <Text variant="caption" tone="clay"> · grower's observation{e.authorName ? ` (${e.authorName})` : ''}</Text> : null}
           </Text>
-        ) : null}
-        {e.note ? (
-          <Text variant="caption" tone="muted">
-            “{e.note}”
-          </Text>
-        ) : null}
-        {e.voided ? (
-          <Text variant="caption" tone="danger">
-            Voided {formatMoment(e.voided.at, timeZone)}: {e.voided.reason}. It counts for nothing.
-          </Text>
-        ) : null}
-        {flagged
-          ? e.flags.map((f) => (
-              <Text key={f} variant="caption" tone="danger" aria-label={`Flagged: ${f}`}>
-                ⚑ Flagged: {f}
-              </Text>
-            ))
-          : null}
-        {row.queued ? (
-          <Text variant="caption" tone="caution">
-            {row.queued.state === 'sent' ? `Sent ${formatClock(row.queued.sentAt!, timeZone)}` : 'On this phone, waiting to send'}
-          </Text>
-        ) : null}
-        {voidable && !row.queued && !e.voided ? (
-          voiding ? (
-            <VoidEntry contractId={contractId} entryId={e.id} onDone={() => setVoiding(false)} />
-          ) : (
-            <Button title="Wrong? Void it" variant="quiet" compact onPress={() => setVoiding(true)} style={styles.voidButton} />
-          )
-        ) : null}
-      </View>
+          {detail ? (
+            <Text variant="caption" style={e.voided ? styles.struck : undefined}>
+              {detail}
+            </Text>
+          ) : null}
+          {e.note ? (
+            <Text variant="caption" tone="muted">
+              “{e.note}”
+            </Text>
+          ) : null}
+          {e.voided ? (
+            <Text variant="caption" tone="danger">
+              Voided {formatMoment(e.voided.at, timeZone)}: {e.voided.reason}. It counts for nothing.
+            </Text>
+          ) : null}
+          {flagged
+            ? e.flags.map((f) => (
+                <Text key={f} variant="caption" tone="danger" aria-label={`Flagged: ${f}`}>
+                  ⚑ Flagged: {f}
+                </Text>
+              ))
+            : null}
+          {row.queued ? (
+            <Text variant="caption" tone="caution">
+              {row.queued.state === 'sent' ? `Sent ${formatClock(row.queued.sentAt!, timeZone)}` : 'On this phone, waiting to send'}
+            </Text>
+          ) : null}
+        </View>
+      </Pressable>
+      {canVoid && open ? (
+        voiding ? (
+          <VoidEntry
+            contractId={contractId}
+            entryId={e.id}
+            onDone={() => {
+              setVoiding(false);
+              setOpen(false);
+            }}
+          />
+        ) : (
+          <Button title="This entry is wrong: void it…" variant="secondary" large onPress={() => setVoiding(true)} style={styles.voidButton} />
+        )
+      ) : null}
     </View>
   );
 }
@@ -144,7 +156,8 @@ export function LogEntries({ rows, contractId, timeZone, side, canVoid }: { rows
 const styles = StyleSheet.create({
   list: { gap: space.lg },
   day: { gap: space.xs },
-  row: { flexDirection: 'row', gap: space.md, padding: space.md, borderRadius: radius.md, backgroundColor: colors.surface, borderWidth: 1, borderColor: colors.line },
+  row: { gap: space.sm, padding: space.md, borderRadius: radius.md, backgroundColor: colors.surface, borderWidth: 1, borderColor: colors.line },
+  summary: { flexDirection: 'row', gap: space.md },
   flagged: { borderColor: colors.danger, borderLeftWidth: 4 },
   queued: { backgroundColor: colors.cautionWash, borderStyle: 'dashed', borderColor: colors.cautionLine },
   voided: { backgroundColor: colors.surfaceSunk },
@@ -152,6 +165,6 @@ const styles = StyleSheet.create({
   time: { width: 72 },
   body: { flex: 1, gap: 2 },
   void: { gap: space.sm, marginTop: space.xs },
-  voidButton: { alignSelf: 'flex-start', marginLeft: -space.md },
+  voidButton: { alignSelf: 'flex-start', marginTop: space.xs },
   actions: { flexDirection: 'row', gap: space.sm, flexWrap: 'wrap' },
 });

@@ -60,6 +60,7 @@ export type ContractDetailView = ContractView & {
   viewer?: ContractViewerFacts;
   cancellation?: { by: ContractParty; byName: string; reason: string; at: string } | null;
   agreedAt?: string | null;
+  restrictions?: { earliestSafeDate: string | null };
 };
 
 export type LogEntryRecord = LogEntryView & {
