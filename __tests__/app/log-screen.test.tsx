@@ -238,7 +238,7 @@ describe('The grazing log screen', () => {
     expect(screen.queryByRole('button', { name: 'Animals in' })).toBeNull();
     expect(screen.queryByRole('button', { name: 'Daily tally' })).toBeNull();
     expect(screen.getByRole('button', { name: 'Add an observation' })).toBeTruthy();
-    expect(screen.getByTestId('log-entry-c-late-tally-01')).toHaveTextContent(/⚑ Flagged: After the animals-out-by date/);
+    expect(screen.getByTestId('log-entry-c-late-tally-01')).toHaveTextContent(/Flagged: After the animals-out-by date/);
     expect(screen.getByTestId('log-entry-c-greta-obs-001')).toHaveTextContent(/grower's observation/);
     queryClient.clear();
   });

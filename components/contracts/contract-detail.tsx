@@ -111,7 +111,14 @@ export function ContractDetail({ contract, viewerId, viewerName }: { contract: C
     <Card style={styles.card}>
       <Text variant="heading">Grazing log</Text>
       {signOff?.status === 'agreed' || contract.agreedHeadDays != null ? (
-        <Figure strong label="Head-days agreed" value={formatNumber(contract.agreedHeadDays ?? signOff?.agreedHeadDays ?? 0, 4)} detail="locked; the invoice bills these" testID="contract-agreed-head-days" />
+        <Figure
+          strong
+          label="Head-days agreed"
+          value={formatNumber(contract.agreedHeadDays ?? signOff?.agreedHeadDays ?? 0, 4)}
+          detail="locked; the invoice bills these"
+          testID="contract-agreed-head-days"
+          style={styles.figureInColumn}
+        />
       ) : null}
       <Button title={side === 'grazier' && contract.status !== 'cancelled' ? 'Open the grazing log' : 'Read the grazing log'} large onPress={() => router.push(`/contracts/${contract.id}/log`)} />
       {['grazing', 'sign-off', 'agreed', 'invoiced', 'paid'].includes(contract.status) ? (
@@ -208,6 +215,8 @@ const styles = StyleSheet.create({
   term: { flexBasis: '45%' },
   termWide: { flexBasis: '30%' },
   termStacked: { flexBasis: 'auto', flexGrow: 0 },
+  // Figure tiles grow along a row; stacked in a card's column they keep their own height.
+  figureInColumn: { flexBasis: 'auto', flexGrow: 0 },
   statusRow: { flexDirection: 'row', flexWrap: 'wrap', gap: space.sm, alignItems: 'center' },
   wide: { flexDirection: 'row', alignItems: 'flex-start', gap: space.xl },
   main: { flex: 2, minWidth: 0, gap: space.lg },

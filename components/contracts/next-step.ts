@@ -24,7 +24,8 @@ export interface NextStep {
   text: string;
 }
 
-const headDays = (n: number | null | undefined) => `${formatNumber(n ?? 0, 1)} head-days`;
+// Sign-off figures at the precision they are agreed and billed: 0.0001 head-day.
+const headDays = (n: number | null | undefined) => `${formatNumber(n ?? 0, 4)} head-days`;
 
 export function nextStep(c: ContractDetailView, side: Side | null): NextStep {
   const other: Side = side === 'grower' ? 'grazier' : 'grower';

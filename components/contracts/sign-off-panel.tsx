@@ -51,7 +51,7 @@ function Agreed({ s, timeZone }: { s: SignOffRound; timeZone: string }) {
   return (
     <Card style={[styles.card, styles.locked]} aria-label="Agreed head-days">
       <Text variant="label" tone="cover">
-        🔒 Head-days agreed and locked
+        Head-days agreed · locked
       </Text>
       <Text variant="display" testID="agreed-head-days">
         {hd(s.agreedHeadDays)}

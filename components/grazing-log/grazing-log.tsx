@@ -45,6 +45,7 @@ export function GrazingLog({ contract, log, side, onShowOlder, loadingOlder }: G
   const queue = useQueuedEntries(contract.id);
   const [mode, setMode] = useState<EntryMode | null>(null);
   const [fixing, setFixing] = useState<QueuedEntry | null>(null);
+  /** The entry just saved, whose state the notice under the buttons follows. */
   const [saved, setSaved] = useState<string | null>(null);
 
   const rows = useMemo(() => mergeLog(log.items, queue.items, contract), [log.items, queue.items, contract]);
@@ -125,7 +126,7 @@ export function GrazingLog({ contract, log, side, onShowOlder, loadingOlder }: G
         onSave={async (entry) => {
           await queue.add(entry);
           close();
-          setSaved(online ? 'Saved on this phone — sending now.' : 'Saved on this phone. It will be sent when there is signal.');
+          setSaved(entry.clientId);
         }}
       />
     ) : null;
@@ -195,15 +196,22 @@ export function GrazingLog({ contract, log, side, onShowOlder, loadingOlder }: G
     </Card>
   );
 
+  const savedItem = saved ? queue.items.find((q) => q.entry.clientId === saved) : undefined;
+  const savedNotice = !savedItem ? null : savedItem.state === 'sent' ? (
+    <Notice tone="ok" title="Sent">{`Saved and sent at ${formatMoment(savedItem.sentAt!, contract.timeZone)}.`}</Notice>
+  ) : savedItem.state === 'refused' ? (
+    <Notice tone="caution" title="Not accepted">Kept on this phone, but Fieldfold did not accept it: see below to fix or discard it.</Notice>
+  ) : (
+    <Notice tone="ok" title="Kept">
+      {online ? 'Saved on this phone — sending now.' : 'Saved on this phone. It will be sent when there is signal.'}
+    </Notice>
+  );
+
   const writing = (
     <>
       {actions}
       {movesPaused}
-      {saved ? (
-        <Notice tone="ok" title="Kept">
-          {saved}
-        </Notice>
-      ) : null}
+      {savedNotice}
       {form}
       {queuePanel}
     </>

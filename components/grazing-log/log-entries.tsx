@@ -90,7 +90,7 @@ function Row({ row, contractId, timeZone, voidable }: { row: LogRow; contractId:
           {flagged
             ? e.flags.map((f) => (
                 <Text key={f} variant="caption" tone="danger" aria-label={`Flagged: ${f}`}>
-                  ⚑ Flagged: {f}
+                  Flagged: {f}
                 </Text>
               ))
             : null}

@@ -1,4 +1,4 @@
-import { infiniteQueryOptions, useInfiniteQuery, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { infiniteQueryOptions, onlineManager, useInfiniteQuery, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type {
   AmendmentInput,
   CancelContractInput,
@@ -110,6 +110,8 @@ export const contractKeys = {
 const enc = encodeURIComponent;
 /** Pages as large as the API gives (its MAX_CONTRACT_PAGE): a season's contracts or a stay's log in one or two. */
 const PAGE = 100;
+/** How often an open log reads its figures again while online. */
+const LOG_REFRESH_MS = 60_000;
 
 type ContractPage = { items: ContractDetailView[]; nextCursor?: string | null };
 
@@ -155,6 +157,8 @@ export const contractLogQueryOptions = (id: string) =>
     initialPageParam: '',
     getNextPageParam: (last) => last.nextCursor || undefined,
     staleTime: staleTimes.detail,
+    // Head-days so far grow by the minute while animals are on: read the figures again now and then.
+    refetchInterval: () => (onlineManager.isOnline() ? LOG_REFRESH_MS : false),
     networkMode: 'always',
   });
 
