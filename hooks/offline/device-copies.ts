@@ -21,25 +21,47 @@ export function setDeviceCopyOwner(accountId: string | null) {
 
 const PREFIX = 'copy/';
 
-export function createDeviceCopies(store: DeviceStore, now: () => number = Date.now) {
+/**
+ * How long a request may take before a kept copy is shown instead (the request goes on and keeps its answer
+ * for next time). One bar of signal in a truck can hold a request open far longer than a grazier will wait.
+ */
+export const SLOW_NETWORK_MS = 8_000;
+
+export function createDeviceCopies(store: DeviceStore, now: () => number = Date.now, slowMs = SLOW_NETWORK_MS) {
   return {
     /**
-     * Fetches and keeps a copy; when the network fails (no answer at all), returns the kept copy instead.
-     * Server answers — a 404, a 403 — are never papered over with an old copy.
+     * Fetches and keeps a copy. With no network at all — or none within `slowMs` — answers with the kept
+     * copy instead. Server answers (a 404, a 403) are never papered over with an old copy.
      */
     async fetch<T>(name: string, fetcher: () => Promise<T>): Promise<WithCopy<T>> {
       const who = owner;
       const key = `${PREFIX}${who}/${name}`;
-      try {
-        const data = await fetcher();
+      const kept = () => (who ? store.get<{ data: T; savedAt: string }>(key) : Promise.resolve(undefined));
+      const network = fetcher().then(async (data): Promise<WithCopy<T>> => {
         if (who) await store.set(key, { data, savedAt: new Date(now()).toISOString() });
         return { data, savedAt: null };
+      });
+      let timer: ReturnType<typeof setTimeout> | undefined;
+      const slow = new Promise<'slow'>((resolve) => {
+        timer = setTimeout(() => resolve('slow'), slowMs);
+      });
+      try {
+        const first = await Promise.race([network, slow]);
+        if (first !== 'slow') return first;
+        const copy = await kept();
+        if (copy) {
+          network.catch(() => undefined); // still running; its answer is kept for the next read
+          return copy;
+        }
+        return await network;
       } catch (err) {
-        if (who && err instanceof ApiError && err.status === 0) {
-          const copy = await store.get<{ data: T; savedAt: string }>(key);
+        if (err instanceof ApiError && err.status === 0) {
+          const copy = await kept();
           if (copy) return copy;
         }
         throw err;
+      } finally {
+        clearTimeout(timer);
       }
     },
 
