@@ -62,7 +62,7 @@ export function SignPanel({ contractId, termsHash, signerName, amended, onSigned
       >
         {({ handleSubmit, isSubmitting }) => (
           <>
-            <FormTextField name="typedName" label="Your full name" placeholder={signerName} autoCapitalize="words" autoComplete="name" hint={`As on your account: ${signerName}`} />
+            <FormTextField name="typedName" label="Your full name" autoCapitalize="words" autoComplete="name" hint={`As on your account: ${signerName}`} />
             <CautionsTick />
             {stale ? (
               <Notice tone="caution" title="The terms changed">
