@@ -28,6 +28,9 @@ export interface AppDeps {
   publicUrl?: string;
   /** Clock in epoch ms, for "today" at a block, sessions and mail; tests fix it. */
   now?: () => number;
+  /** The grazing-log PDF renderer and the document store (see server/modules/contracts/contract-documents.ts). */
+  pdf?: ServiceContext['pdf'];
+  documents?: ServiceContext['documents'];
 }
 
 /** Builds the whole HTTP app; never listens (server/index.ts does), so tests drive it with supertest. */
@@ -58,6 +61,8 @@ export function createApp(deps: AppDeps): Express {
     log: deps.log ?? console.error,
     photos: localPhotoStore(deps.uploadsDir),
     tokenSecret: deps.tokens.secret,
+    pdf: deps.pdf,
+    documents: deps.documents,
   };
   api.use(accountsRouter(ctx, deps.tokens));
   api.use('/calc', calcRouter());

@@ -19,6 +19,9 @@ export interface TestAppOptions {
   log?: (msg: string) => void;
   /** A mail adapter other than the in-memory outbox (e.g. one that fails). */
   mail?: import('../../server/lib/mail/mail-port').MailPort;
+  /** The grazing-log PDF renderer and the document store (server/modules/contracts/contract-documents.ts ports). */
+  pdf?: import('../../server/lib/service-context').ServiceContext['pdf'];
+  documents?: import('../../server/lib/service-context').ServiceContext['documents'];
 }
 
 /** A fresh in-memory SQLite that ran the real migrations, and the real app on top of it. */
@@ -39,6 +42,8 @@ export async function makeTestApp(options: TestAppOptions = {}) {
     outbox,
     publicUrl: 'http://fieldfold.test',
     now,
+    pdf: options.pdf,
+    documents: options.documents,
   });
   let n = 0;
   async function signUp(roles: Array<'grower' | 'grazier'>, name = 'Test Person') {

@@ -2,6 +2,7 @@ import type { DataSource } from 'typeorm';
 import type { MailOutbox } from './mail/outbox';
 import type { AppLinks } from './mail/links';
 import type { PhotoStore } from './storage/photo-store';
+import type { ContractDocumentStore, GrazingLogRenderer } from '../modules/contracts/contract-documents';
 
 /**
  * What the business modules need from the outside world, built once by createApp from AppDeps. Every hosted
@@ -20,4 +21,8 @@ export interface ServiceContext {
   photos: PhotoStore;
   /** Signs the short-lived photo access tokens (the sign-in secret; tokens carry their own `typ`). */
   tokenSecret: string;
+  /** Renders the grazing-log PDF (server/lib/pdf). Optional until wired: without it GET …/log.pdf answers 503. */
+  pdf?: GrazingLogRenderer;
+  /** Stores rendered documents and their versions (server/modules/documents). Optional until wired, as `pdf`. */
+  documents?: ContractDocumentStore;
 }

@@ -9,11 +9,11 @@ import { addPhoto, assertCanAddPhoto, deletePhoto, openPhoto } from './block-pho
 import { verifyPhotoAccess } from './photo-access';
 import { MAX_PHOTO_BYTES } from '../../../lib/schemas/block';
 
-const PHOTO_FIELD = 'photo';
+export const PHOTO_FIELD = 'photo';
 const MB = MAX_PHOTO_BYTES / (1024 * 1024);
 
 /** multer's own errors carry no HTTP status; give each one the status and field the API promises. */
-function uploadError(err: unknown): AppError {
+export function uploadError(err: unknown): AppError {
   if (err instanceof multer.MulterError) {
     if (err.code === 'LIMIT_FILE_SIZE') return new AppError(413, 'too_large', `Each photo may be at most ${MB} MB`, { [PHOTO_FIELD]: `This photo is larger than ${MB} MB` });
     if (err.code === 'LIMIT_UNEXPECTED_FILE') return AppError.badRequest(`Send the photo in the form field "${PHOTO_FIELD}"`, { [err.field || PHOTO_FIELD]: `Send one photo in the form field "${PHOTO_FIELD}"` });
