@@ -87,6 +87,14 @@ export const logEntrySchema = rejectUnknown(
 );
 export type LogEntryInput = yup.InferType<typeof logEntrySchema>;
 
+/** Voiding a log entry (its author, while the log is open): the entry stays in the record, struck out. */
+export const voidLogEntrySchema = rejectUnknown(
+  yup.object({
+    reason: text('Reason', 1000).min(3, 'Say why the entry is wrong').required('Say why the entry is wrong'),
+  }),
+);
+export type VoidLogEntryInput = yup.InferType<typeof voidLogEntrySchema>;
+
 export const SIGN_OFF_ACTIONS = ['propose', 'approve', 'dispute', 'accept-counter'] as const;
 export type SignOffAction = (typeof SIGN_OFF_ACTIONS)[number];
 
@@ -207,6 +215,8 @@ export interface LogEntryView {
   recordedAt: string;
   /** The author's name as the account has it. */
   authorName: string;
+  /** Set when the author voided the entry: it stays in the record and counts for nothing. */
+  voided: { at: string; reason: string } | null;
   /** Photos attached to the entry (POST /api/contracts/:id/log/:entryId/photos). */
   photos: LogPhotoView[];
 }

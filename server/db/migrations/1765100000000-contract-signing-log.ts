@@ -83,7 +83,9 @@ export class ContractSigningLog1765100000000 implements MigrationInterface {
       "author" varchar(8) NOT NULL,
       "author_id" varchar(36) NOT NULL REFERENCES "accounts"("id"),
       "flags" text NOT NULL DEFAULT ('[]'),
-      "recorded_at" datetime NOT NULL
+      "recorded_at" datetime NOT NULL,
+      "voided_at" datetime,
+      "void_reason" text
     )`);
     await q.query(`CREATE UNIQUE INDEX "uq_log_entry_client" ON "contract_log_entries" ("contract_id", "client_id")`);
     await q.query(`CREATE INDEX "idx_log_entries_time" ON "contract_log_entries" ("contract_id", "at_ms", "id")`);

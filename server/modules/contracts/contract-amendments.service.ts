@@ -16,7 +16,7 @@ import { startOfLocalDay } from '../../../lib/dates';
 import { formatDay, formatNumber } from '../../../lib/format';
 import { parseRate, rateToString } from '../../../lib/money';
 import { amendmentSchema, type AmendmentInput, type AmendmentView, type ContractView } from '../../../lib/schemas/contract';
-import { LessThan } from 'typeorm';
+import { IsNull, LessThan } from 'typeorm';
 
 // Amendments: either party proposes changed terms (head, dates, out-by, basis and rate — or, once agreed, a
 // corrected head-days figure) with a reason. The proposal is a new version of the terms with its own
@@ -70,7 +70,7 @@ export async function proposeAmendment(ctx: ServiceContext, caller: Account, id:
       const next = { ...amendTerms(terms, kept), version };
       const problems = amendedTermsProblems(next);
       if (kept.startDate !== undefined && !problems.startDate) {
-        const early = await tx.findOne(LogEntry, { where: { contractId: contract.id, atMs: LessThan(startOfLocalDay(next.startDate, next.block.timeZone)) }, order: { atMs: 'ASC' } });
+        const early = await tx.findOne(LogEntry, { where: { contractId: contract.id, voidedAt: IsNull(), atMs: LessThan(startOfLocalDay(next.startDate, next.block.timeZone)) }, order: { atMs: 'ASC' } });
         if (early) problems.startDate = `The log has entries before ${formatDay(next.startDate)} (the first on ${early.at.slice(0, 10)}): animals in cannot move after them`;
       }
       if (Object.keys(problems).length > 0) throw AppError.badRequest('Some fields need attention', problems);

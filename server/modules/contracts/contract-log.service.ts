@@ -32,6 +32,8 @@ import {
   type LogPage,
   type LogPageQuery,
   type LogPhotoView,
+  type VoidLogEntryInput,
+  voidLogEntrySchema,
 } from '../../../lib/schemas/contract';
 
 // The grazing log, written from the truck: the grazier logs moves (animals in and out), tallies and
@@ -124,7 +126,7 @@ export async function addLogEntry(ctx: ServiceContext, caller: Account, id: stri
       const moves = await movesOf(tx, contract.id);
       const flags: string[] = [];
       if (input.kind === 'move') {
-        const withNew = [...moves, { at: input.at, atMs, change: input.change! }].sort((a, b) => a.atMs - b.atMs);
+        const withNew = [...moves, { id: '', at: input.at, atMs, change: input.change! }].sort((a, b) => a.atMs - b.atMs);
         try {
           parseMoves(withNew.map(({ at, change }) => ({ at, change })));
         } catch (err) {
@@ -216,11 +218,51 @@ async function entryViews(ctx: ServiceContext, em: EntityManager, contract: Cont
     losses: e.losses,
     note: e.note,
     author: e.author,
-    flags: [...dateFlags(e, terms), ...e.flags],
+    flags: [...(e.voidedAt ? [`Voided: ${e.voidReason ?? ''}`] : []), ...dateFlags(e, terms), ...e.flags],
     recordedAt: e.recordedAt.toISOString(),
     authorName: nameOf.get(e.authorId) ?? 'Unknown',
+    voided: e.voidedAt ? { at: e.voidedAt.toISOString(), reason: e.voidReason ?? '' } : null,
     photos: photosOf.get(e.id) ?? [],
   }));
+}
+
+/**
+ * The author voids a mistaken entry while the log is open (a wrong count, a move logged twice): it stays in
+ * the record, struck out with the reason, and counts for nothing. Voiding a move must leave the head count
+ * at or above zero all along (a move in cannot go while its move out stands).
+ */
+export async function voidLogEntry(ctx: ServiceContext, caller: Account, id: string, entryId: string, body: unknown): Promise<{ entry: LogEntryView; figures: LogFigures }> {
+  const input = (await check(voidLogEntrySchema, body)) as VoidLogEntryInput;
+  await inTransaction(ctx.ds, async (tx) => {
+    const contract = await lockContract(tx, id);
+    assertParty(caller, contract);
+    const entry = await tx.findOneBy(LogEntry, { id: entryId, contractId: id });
+    if (!entry) throw AppError.notFound('Log entry');
+    if (entry.authorId !== caller.id) throw AppError.forbidden('Only the author of an entry may void it');
+    if (entry.voidedAt) throw AppError.conflict('This entry is voided already', 'already_voided');
+    assertWritable(partyOf(caller, contract)!, contract, await latestSignOff(tx, id), entry.kind);
+    if (entry.kind === 'move') {
+      const remaining = (await movesOf(tx, id)).filter((m) => m.id !== entry.id);
+      try {
+        parseMoves(remaining.map(({ at, change }) => ({ at, change })));
+      } catch (err) {
+        if (!(err instanceof GrazingInputError)) throw err;
+        throw AppError.conflict('Without this move a later move out would take more head than the log has on the block: void that one first', 'void_below_zero');
+      }
+    }
+    const res = await tx
+      .createQueryBuilder()
+      .update(LogEntry)
+      .set({ voidedAt: new Date(ctx.now()), voidReason: input.reason })
+      .where('id = :entryId AND voided_at IS NULL', { entryId })
+      .execute();
+    if (res.affected !== 1) throw AppError.conflict('This entry is voided already', 'already_voided');
+  });
+  const em = ctx.ds.manager;
+  const contract = await em.findOneByOrFail(Contract, { id });
+  const { terms } = await termsInForce(em, contract);
+  const [view] = await entryViews(ctx, em, contract, terms, [await em.findOneByOrFail(LogEntry, { id: entryId })], caller.id);
+  return { entry: view, figures: await figuresOf(em, contract, terms, ctx.now()) };
 }
 
 /**

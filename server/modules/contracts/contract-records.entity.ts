@@ -166,6 +166,13 @@ export class LogEntry {
 
   @Column('datetime', { name: 'recorded_at' })
   recordedAt: Date;
+
+  /** Entries are never deleted: a mistake is voided by its author with a reason, and stays in the record. */
+  @Column('datetime', { name: 'voided_at', nullable: true })
+  voidedAt: Date | null;
+
+  @Column('text', { name: 'void_reason', nullable: true })
+  voidReason: string | null;
 }
 
 @Entity('contract_log_photos')

@@ -99,17 +99,17 @@ export function requireTerms(contract: Contract): ContractTerms {
   return contract.terms;
 }
 
-/** The moves of a log in time order (moves at one instant in the order they were stored). */
-export async function movesOf(em: EntityManager, contractId: string): Promise<Array<{ at: string; change: number; atMs: number }>> {
-  const rows: Array<{ at: string; change: number; atMs: number | string }> = await em
+/** The moves of a log in time order (moves at one instant in the order they were stored); voided ones count for nothing. */
+export async function movesOf(em: EntityManager, contractId: string): Promise<Array<{ id: string; at: string; change: number; atMs: number }>> {
+  const rows: Array<{ id: string; at: string; change: number; atMs: number | string }> = await em
     .createQueryBuilder(LogEntry, 'e')
-    .select(['e.at AS "at"', 'e.change AS "change"', 'e.at_ms AS "atMs"'])
-    .where('e.contract_id = :id AND e.kind = :move', { id: contractId, move: 'move' })
+    .select(['e.id AS "id"', 'e.at AS "at"', 'e.change AS "change"', 'e.at_ms AS "atMs"'])
+    .where('e.contract_id = :id AND e.kind = :move AND e.voided_at IS NULL', { id: contractId, move: 'move' })
     .orderBy('e.at_ms', 'ASC')
     .addOrderBy('e.recorded_at', 'ASC')
     .addOrderBy('e.id', 'ASC')
     .getRawMany();
-  return rows.map((r) => ({ at: r.at, change: Number(r.change), atMs: Number(r.atMs) }));
+  return rows.map((r) => ({ id: r.id, at: r.at, change: Number(r.change), atMs: Number(r.atMs) }));
 }
 
 /**
@@ -122,12 +122,12 @@ export async function figuresOf(em: EntityManager, contract: Contract, terms: Co
     em
       .createQueryBuilder(LogEntry, 'e')
       .select('COALESCE(SUM(e.losses), 0)', 'n')
-      .where('e.contract_id = :id AND e.author = :grazier', { id: contract.id, grazier: 'grazier' })
+      .where('e.contract_id = :id AND e.author = :grazier AND e.voided_at IS NULL', { id: contract.id, grazier: 'grazier' })
       .getRawOne<{ n: number | string }>(),
     em
       .createQueryBuilder(LogEntry, 'e')
       .select('e.residual_height_in', 'h')
-      .where('e.contract_id = :id AND e.residual_height_in IS NOT NULL', { id: contract.id })
+      .where('e.contract_id = :id AND e.residual_height_in IS NOT NULL AND e.voided_at IS NULL', { id: contract.id })
       .orderBy('e.at_ms', 'DESC')
       .addOrderBy('e.id', 'DESC')
       .limit(1)

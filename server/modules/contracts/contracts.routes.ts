@@ -8,7 +8,7 @@ import { PHOTO_FIELD, uploadError } from '../blocks/blocks.routes';
 import { verifyPhotoAccess } from '../blocks/photo-access';
 import { cancelContract, getContract, listContracts, signContract } from './contracts.service';
 import { closeAmendment, proposeAmendment } from './contract-amendments.service';
-import { addLogEntry, addLogPhoto, assertCanAddLogPhoto, listLog, openLogPhoto } from './contract-log.service';
+import { addLogEntry, addLogPhoto, assertCanAddLogPhoto, listLog, openLogPhoto, voidLogEntry } from './contract-log.service';
 import { signOff } from './sign-off.service';
 import { grazingLogPdf } from './contract-documents';
 import { MAX_PHOTO_BYTES } from '../../../lib/schemas/block';
@@ -59,6 +59,10 @@ export function contractsRouter(ctx: ServiceContext): Router {
   router.post('/contracts/:id/log', auth, async (req, res) => {
     const { entry, created, figures } = await addLogEntry(ctx, signedIn(req), param(req, 'id'), req.body);
     res.status(created ? 201 : 200).json({ entry, figures });
+  });
+
+  router.post('/contracts/:id/log/:entryId/void', auth, async (req, res) => {
+    res.json(await voidLogEntry(ctx, signedIn(req), param(req, 'id'), param(req, 'entryId'), req.body));
   });
 
   // Party, authorship, state and the photo count are checked before multer reads the body into memory.
