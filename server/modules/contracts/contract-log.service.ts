@@ -67,7 +67,7 @@ function assertShape(input: LogEntryInput): void {
 }
 
 /** Kinds the party may add in the contract's present state (the buttons the log screen shows). */
-function writableKinds(party: ContractParty | null, c: Contract, latest: SignOff | null): LogEntryKind[] {
+function writableKinds(party: ContractParty | null, c: Pick<Contract, 'status'>, latest: SignOff | null): LogEntryKind[] {
   if (!party || !['signed', 'grazing', 'sign-off'].includes(c.status)) return [];
   if (party === 'grower') return ['observation'];
   // While the grower weighs a proposal the head-days must not move under them; tallies and notes may.
@@ -75,7 +75,7 @@ function writableKinds(party: ContractParty | null, c: Contract, latest: SignOff
   return ['move', 'tally', 'observation'];
 }
 
-function assertWritable(party: ContractParty, c: Contract, latest: SignOff | null, kind: LogEntryKind): void {
+function assertWritable(party: ContractParty, c: Pick<Contract, 'status'>, latest: SignOff | null, kind: LogEntryKind): void {
   if (party === 'grower' && kind !== 'observation') throw AppError.forbidden('Only the grazier logs moves and tallies; you may add observations');
   if (c.status === 'to-sign') throw AppError.conflict('The log opens once both parties have signed the contract', 'not_signed');
   if (c.status === 'cancelled') throw AppError.conflict('This contract was cancelled', 'contract_cancelled');
@@ -105,6 +105,79 @@ function dateFlags(e: { atMs: number }, terms: ContractTerms): string[] {
   return [];
 }
 
+export interface LogEntryContext {
+  party: ContractParty;
+  status: Contract['status'];
+  latest: SignOff | null;
+  terms: ContractTerms;
+  nowMs: number;
+  /** The stored moves in time order (movesOf). */
+  moves: Array<{ id: string; at: string; atMs: number; change: number }>;
+}
+
+/**
+ * Every rule a new entry must meet, in the order a person would fix them: the fields its kind carries,
+ * who may write it now, its time, and for a move the head count. Returns the flags it is stored with.
+ * (The demo seed writes its logs through this too, so the demo shows nothing the API would refuse.)
+ */
+export function vetLogEntry(input: LogEntryInput, c: LogEntryContext): { atMs: number; flags: string[] } {
+  assertShape(input);
+  const atMs = parseIsoInstant(input.at)!;
+  assertWritable(c.party, c, c.latest, input.kind);
+  if (c.party === 'grower' && input.losses != null) throw fail('losses', 'Losses are the grazier’s to record: describe what you saw in the note');
+  assertTime(atMs, c.terms, c.nowMs);
+  const flags: string[] = [];
+  if (input.kind === 'move') {
+    const withNew = [...c.moves, { id: '', at: input.at, atMs, change: input.change! }].sort((a, b) => a.atMs - b.atMs);
+    try {
+      parseMoves(withNew.map(({ at, change }) => ({ at, change })));
+    } catch (err) {
+      if (!(err instanceof GrazingInputError)) throw err;
+      const onBlock = headAt(c.moves, atMs);
+      throw fail(
+        'change',
+        input.change! < 0 && -input.change! > onBlock
+          ? `This move takes out ${formatNumber(-input.change!)} head, but the log has ${formatNumber(onBlock)} on the block then`
+          : 'This move would leave fewer than zero head on the block at a later move out: check the times of the moves',
+      );
+    }
+  }
+  if (input.kind === 'tally') {
+    const onBlock = headAt(c.moves, atMs);
+    if (input.count !== onBlock) flags.push(`Tally of ${formatNumber(input.count!)} differs from the ${formatNumber(onBlock)} head the moves put on the block`);
+  }
+  return { atMs, flags };
+}
+
+/** The stored row of a vetted entry. */
+export function logEntryRow(input: LogEntryInput, r: { contractId: string; party: ContractParty; authorId: string; atMs: number; flags: string[]; recordedAt: Date }): LogEntry {
+  return Object.assign(new LogEntry(), {
+    id: crypto.randomUUID(),
+    contractId: r.contractId,
+    clientId: input.clientId,
+    kind: input.kind,
+    at: input.at,
+    atMs: r.atMs,
+    change: input.change ?? null,
+    count: input.count ?? null,
+    paddock: input.paddock ?? null,
+    residualHeightIn: input.residualHeightIn ?? null,
+    takenPct: input.takenPct ?? null,
+    trampledPct: input.trampledPct ?? null,
+    bareGroundPct: input.bareGroundPct ?? null,
+    waterChecked: input.waterChecked ?? null,
+    fenceChecked: input.fenceChecked ?? null,
+    losses: input.losses ?? null,
+    note: input.note ?? null,
+    author: r.party,
+    authorId: r.authorId,
+    flags: r.flags,
+    recordedAt: r.recordedAt,
+    voidedAt: null,
+    voidReason: null,
+  });
+}
+
 export async function addLogEntry(ctx: ServiceContext, caller: Account, id: string, body: unknown): Promise<{ entry: LogEntryView; created: boolean; figures: LogFigures }> {
   const input = (await check(logEntrySchema, body)) as LogEntryInput;
   assertShape(input);
@@ -118,56 +191,10 @@ export async function addLogEntry(ctx: ServiceContext, caller: Account, id: stri
       if (stored) return { entryId: stored.id, created: false };
 
       const party = partyOf(caller, contract)!;
-      assertWritable(party, contract, await latestSignOff(tx, contract.id), input.kind);
-      if (party === 'grower' && input.losses != null) throw fail('losses', 'Losses are the grazier’s to record: describe what you saw in the note');
       const { terms } = await termsInForce(tx, contract, true);
-      assertTime(atMs, terms, ctx.now());
+      const { flags } = vetLogEntry(input, { party, status: contract.status, latest: await latestSignOff(tx, contract.id), terms, nowMs: ctx.now(), moves: await movesOf(tx, contract.id) });
 
-      const moves = await movesOf(tx, contract.id);
-      const flags: string[] = [];
-      if (input.kind === 'move') {
-        const withNew = [...moves, { id: '', at: input.at, atMs, change: input.change! }].sort((a, b) => a.atMs - b.atMs);
-        try {
-          parseMoves(withNew.map(({ at, change }) => ({ at, change })));
-        } catch (err) {
-          if (!(err instanceof GrazingInputError)) throw err;
-          const onBlock = headAt(moves, atMs);
-          throw fail(
-            'change',
-            input.change! < 0 && -input.change! > onBlock
-              ? `This move takes out ${formatNumber(-input.change!)} head, but the log has ${formatNumber(onBlock)} on the block then`
-              : 'This move would leave fewer than zero head on the block at a later move out: check the times of the moves',
-          );
-        }
-      }
-      if (input.kind === 'tally') {
-        const onBlock = headAt(moves, atMs);
-        if (input.count !== onBlock) flags.push(`Tally of ${formatNumber(input.count!)} differs from the ${formatNumber(onBlock)} head the moves put on the block`);
-      }
-
-      const entry = tx.create(LogEntry, {
-        id: crypto.randomUUID(),
-        contractId: contract.id,
-        clientId: input.clientId,
-        kind: input.kind,
-        at: input.at,
-        atMs,
-        change: input.change ?? null,
-        count: input.count ?? null,
-        paddock: input.paddock ?? null,
-        residualHeightIn: input.residualHeightIn ?? null,
-        takenPct: input.takenPct ?? null,
-        trampledPct: input.trampledPct ?? null,
-        bareGroundPct: input.bareGroundPct ?? null,
-        waterChecked: input.waterChecked ?? null,
-        fenceChecked: input.fenceChecked ?? null,
-        losses: input.losses ?? null,
-        note: input.note ?? null,
-        author: party,
-        authorId: caller.id,
-        flags,
-        recordedAt: new Date(ctx.now()),
-      });
+      const entry = logEntryRow(input, { contractId: contract.id, party, authorId: caller.id, atMs, flags, recordedAt: new Date(ctx.now()) });
       await tx.insert(LogEntry, entry);
       // The first animals in start the stay.
       if (input.kind === 'move' && input.change! > 0 && contract.status === 'signed') {
