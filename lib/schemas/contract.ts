@@ -186,10 +186,12 @@ export interface SignatureView {
   typedName: string;
   signedAt: string;
   termsHash: string;
+  // Added with the signing API; optional only so values typed against the first draft still compile — the
+  // server always sends them.
   /** The version of the terms this signature is on. */
-  termsVersion: number;
+  termsVersion?: number;
   /** The signer ticked that they read the cautions shown with the terms (always true: signing requires it). */
-  cautionsAcknowledged: boolean;
+  cautionsAcknowledged?: boolean;
 }
 
 export interface LogEntryView {
@@ -213,12 +215,14 @@ export interface LogEntryView {
   /** Reasons the record flags this entry, e.g. "after the animals-out-by date". Never refused: the record shows what happened. */
   flags: string[];
   recordedAt: string;
+  // Added with the log API; optional only so values typed against the first draft still compile — the
+  // server always sends them.
   /** The author's name as the account has it. */
-  authorName: string;
+  authorName?: string;
   /** Set when the author voided the entry: it stays in the record and counts for nothing. */
-  voided: { at: string; reason: string } | null;
+  voided?: { at: string; reason: string } | null;
   /** Photos attached to the entry (POST /api/contracts/:id/log/:entryId/photos). */
-  photos: LogPhotoView[];
+  photos?: LogPhotoView[];
 }
 
 export interface LogPhotoView {
@@ -230,11 +234,15 @@ export interface LogPhotoView {
   createdAt: string;
 }
 
+type FirstDraftFigures = 'headNow' | 'headDaysSoFar' | 'byDay' | 'eatenLb' | 'targetTakeLb' | 'projectedUtilizationPct' | 'daysLeftInWindow' | 'daysToOutBy' | 'warnings';
+
 /**
  * Running figures of a log (lib/grazing/log-figures.ts computes them; the screen and the PDF show them).
- * The fields listed here first were the first draft; the rest come from LogFiguresResult.
+ * The fields listed here were the first draft; the rest of LogFiguresResult (intake and its source,
+ * standing forage, utilisation so far, the alerts with their tone …) are optional only so values typed
+ * against the first draft still compile — the server always sends them.
  */
-export interface LogFigures extends LogFiguresResult {
+export interface LogFigures extends Partial<Omit<LogFiguresResult, FirstDraftFigures>> {
   headNow: number;
   headDaysSoFar: number;
   byDay: HeadDaysByDay[];
@@ -245,7 +253,8 @@ export interface LogFigures extends LogFiguresResult {
   daysLeftInWindow: number;
   daysToOutBy: number;
   warnings: string[];
-  alerts: LogAlert[];
+  /** The warnings with their key and tone (danger, caution, info). */
+  alerts?: LogAlert[];
 }
 
 /** GET /api/contracts/:id/log — newest entries first, a page at a time; figures are over the whole log. */
@@ -266,23 +275,26 @@ export type SignOffStatus = (typeof SIGN_OFF_STATUSES)[number];
  * answered by the grazier accepting the counter (agreed) or proposing again (this round 'superseded').
  */
 export interface SignOffView {
-  id: string;
+  // id, round, byDay, comment and agreedBy came with the sign-off API; optional only so values typed
+  // against the first draft still compile — the server always sends them.
+  id?: string;
   /** 1, 2, … — a new round for each proposal. */
-  round: number;
+  round?: number;
+  /** 'superseded' is new: a disputed round the grazier answered by proposing again. */
   status: SignOffStatus;
   proposedHeadDays: number;
   proposedAt: string;
   /** The day-by-day breakdown of the proposed head-days, in the block's zone. */
-  byDay: HeadDaysByDay[];
+  byDay?: HeadDaysByDay[];
   /** The grazier's note with the proposal. */
-  comment: string | null;
+  comment?: string | null;
   counterHeadDays: number | null;
   disputeComment: string | null;
   disputedAt: string | null;
   agreedHeadDays: number | null;
   agreedAt: string | null;
   /** Who agreed the figure last: the grower approving, or the grazier accepting the counter. */
-  agreedBy: ContractParty | null;
+  agreedBy?: ContractParty | null;
   /** The grazier's name (who proposed) and the grower's (who approved or countered), locked with the figure. */
   grazierName: string;
   growerName: string | null;

@@ -185,7 +185,7 @@ export function grazingLogDocumentData(
       fenceChecked: e.fenceChecked,
       losses: e.losses,
       note: e.note,
-      by: e.authorName,
+      by: e.authorName ?? '',
       flags: e.flags,
     })),
     figures,
