@@ -159,7 +159,7 @@ describe('GET /api/contracts/:id/log', () => {
 });
 
 describe('photos on log entries', () => {
-  it('When the author adds a photo, then it is stored and shown to both parties by a signed link; a non-image is 415 and a stranger 404', async () => {
+  it('When the author adds a photo, then it is stored and shown to both parties by a signed link; a non-image is 415, too large 413, and a stranger 404', async () => {
     const a = await c.signed();
     t.setNow('2027-01-12T08:00:00-08:00');
     const entry = await c.logOk(a.grazier, a.contractId, { kind: 'observation', at: '2027-01-11T08:00:00-08:00', note: 'Residual by the pump house' });
@@ -168,6 +168,9 @@ describe('photos on log entries', () => {
     expect(up.status).toBe(201);
     expect((await request(t.app).post(url).set(a.grazier.auth).attach('photo', Buffer.from('not an image at all'), 'x.png')).status).toBe(415);
     expect((await request(t.app).post(url).set(a.grower.auth).attach('photo', PNG, 'x.png')).status).toBe(403);
+    const big = await request(t.app).post(url).set(a.grazier.auth).attach('photo', Buffer.concat([PNG, Buffer.alloc(8 * 1024 * 1024)]), 'big.png');
+    expect(big.status).toBe(413);
+    expect(big.body.error.fields).toHaveProperty('photo');
 
     const page = await c.api().get(`/api/contracts/${a.contractId}/log`).set(a.grower.auth);
     const photo = page.body.items[0].photos[0];
