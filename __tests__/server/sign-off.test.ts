@@ -219,7 +219,7 @@ describe('GET /api/contracts/:id/log.pdf', () => {
       grower: { name: 'Greta Olsen' },
       block: { name: 'North bench walnut middles', acres: 80 },
     });
-    expect(data.signatures.map((s) => [s.party, s.termsHash, s.userAgent]).sort()).toEqual([
+    expect(data.signatures.map((s) => [s.role, s.termsHash, s.userAgent]).sort()).toEqual([
       ['grazier', contract.termsHash, 'fieldfold-tests/1.0'],
       ['grower', contract.termsHash, 'fieldfold-tests/1.0'],
     ]);

@@ -25,7 +25,8 @@ import type { ContractView, LogEntryView, LogFigures, SignOffView } from '../../
 // ports on the service context. Until they are wired, the route answers 503 and nothing else changes.
 
 export interface GrazingLogSignature {
-  party: 'grower' | 'grazier';
+  /** The party who signed (named `role` as server/lib/pdf's PdfSignature names it). */
+  role: 'grower' | 'grazier';
   typedName: string;
   signedAt: string;
   termsVersion: number;
@@ -230,7 +231,7 @@ async function documentData(ctx: ServiceContext, contract: Contract, made: { ver
     figures,
     view.signOff ?? null,
     signatures.map((s) => ({
-      party: s.party,
+      role: s.party,
       typedName: s.typedName,
       signedAt: s.signedAt.toISOString(),
       termsVersion: s.termsVersion,
