@@ -251,11 +251,6 @@ export function logFigures(input: LogFiguresInput): LogFiguresResult {
   };
 }
 
-/** The flag on an entry dated after the out-by day (the same words on the screen, in mail and on the PDF). */
-export function afterOutByFlag(outBy: string): string {
-  return `After the animals-out-by date (${formatDay(outBy)})`;
-}
-
 /** The flag on an entry dated after the agreed end date (but not after out-by). */
 export function afterEndDateFlag(endDate: string): string {
   return `After the agreed end date (${formatDay(endDate)})`;

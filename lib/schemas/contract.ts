@@ -7,7 +7,7 @@ import type { SprayRecord } from '../grazing/safety';
 import type { AmendableTerm } from '../contract-terms';
 import type { BidTermsView } from './bid';
 import type { BlockSummary, PartyView } from './block';
-import { bool, day, int, num, rejectUnknown, text } from './fields';
+import { bool, day, int, line, num, paragraphs, rejectUnknown } from './fields';
 import { CHARGE_BASES, isValidQuantity, RATE_PATTERN } from '../money';
 import { parseIsoInstant } from '../dates';
 
@@ -43,7 +43,7 @@ export const CONTRACT_STATUS_LABELS: Record<ContractStatus, string> = {
 
 export const signContractSchema = rejectUnknown(
   yup.object({
-    typedName: text('Your full name', 120).min(2, 'Type your full name to sign').required('Type your full name to sign'),
+    typedName: line('Your full name', 120).min(2, 'Type your full name to sign').required('Type your full name to sign'),
     /** The signer ticked that they read the cautions shown with the terms. */
     cautionsAcknowledged: bool('Acknowledgement of the cautions').oneOf([true], 'Tick that you have read the cautions').required('Tick that you have read the cautions'),
     /** SHA-256 of the terms text the signer saw: refused (409) when the terms changed meanwhile. */
@@ -74,7 +74,7 @@ export const logEntrySchema = rejectUnknown(
     change: int('Change').min(-20_000, 'Change must be at least −20 000').max(20_000, 'Change must be at most 20 000').test('not-zero', 'Change must not be 0', (v) => v !== 0).optional(),
     /** tally: head counted on the block. */
     count: int('Head counted').min(0, 'Head counted must not be negative').max(20_000, 'Head counted must be at most 20 000').optional(),
-    paddock: text('Paddock or cell', 60).optional().nullable(),
+    paddock: line('Paddock or cell', 60).optional().nullable(),
     residualHeightIn: num('Residual height').min(0, 'Residual height must not be negative').max(60, 'Residual height must be at most 60 in').optional().nullable(),
     takenPct: num('Estimated % taken').min(0, 'Estimated % taken must be 0–100').max(100, 'Estimated % taken must be 0–100').optional().nullable(),
     trampledPct: num('Trampled residue %').min(0, 'Trampled residue % must be 0–100').max(100, 'Trampled residue % must be 0–100').optional().nullable(),
@@ -82,7 +82,7 @@ export const logEntrySchema = rejectUnknown(
     waterChecked: bool('Water checked').optional().nullable(),
     fenceChecked: bool('Fence checked').optional().nullable(),
     losses: int('Losses').min(0, 'Losses must not be negative').max(20_000, 'Losses must be at most 20 000').optional().nullable(),
-    note: text('Note', 2000).optional().nullable(),
+    note: paragraphs('Note', 2000).optional().nullable(),
   }),
 );
 export type LogEntryInput = yup.InferType<typeof logEntrySchema>;
@@ -90,7 +90,7 @@ export type LogEntryInput = yup.InferType<typeof logEntrySchema>;
 /** Voiding a log entry (its author, while the log is open): the entry stays in the record, struck out. */
 export const voidLogEntrySchema = rejectUnknown(
   yup.object({
-    reason: text('Reason', 1000).min(3, 'Say why the entry is wrong').required('Say why the entry is wrong'),
+    reason: paragraphs('Reason', 1000).min(3, 'Say why the entry is wrong').required('Say why the entry is wrong'),
   }),
 );
 export type VoidLogEntryInput = yup.InferType<typeof voidLogEntrySchema>;
@@ -107,7 +107,7 @@ export const signOffSchema = rejectUnknown(
       .max(100_000_000, 'Head-days is too large')
       .test('decimals', 'Head-days may have at most 4 decimals', (v) => v === undefined || !(v >= 0) || isValidQuantity(v))
       .optional(),
-    comment: text('Comment', 2000).optional().nullable(),
+    comment: paragraphs('Comment', 2000).optional().nullable(),
   }),
 );
 export type SignOffInput = yup.InferType<typeof signOffSchema>;
@@ -135,14 +135,14 @@ export const amendmentSchema = rejectUnknown(
       .max(100_000_000, 'Agreed head-days is too large')
       .test('decimals', 'Agreed head-days may have at most 4 decimals', (v) => v === undefined || !(v >= 0) || isValidQuantity(v))
       .optional(),
-    reason: text('Reason', 1000).min(3, 'Say why the terms change').required('Say why the terms change'),
+    reason: paragraphs('Reason', 1000).min(3, 'Say why the terms change').required('Say why the terms change'),
   }),
 );
 export type AmendmentInput = yup.InferType<typeof amendmentSchema>;
 
 export const cancelContractSchema = rejectUnknown(
   yup.object({
-    reason: text('Reason', 1000).min(3, 'Say why the contract is cancelled').required('Say why the contract is cancelled'),
+    reason: paragraphs('Reason', 1000).min(3, 'Say why the contract is cancelled').required('Say why the contract is cancelled'),
   }),
 );
 export type CancelContractInput = yup.InferType<typeof cancelContractSchema>;

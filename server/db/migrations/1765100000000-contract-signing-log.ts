@@ -24,6 +24,10 @@ export class ContractSigningLog1765100000000 implements MigrationInterface {
     // Bumped by every change of the contract row; the first statement of a use case on a contract, so it
     // also takes the row's write lock (PostgreSQL) before anything is read for a decision.
     await q.query(`ALTER TABLE "contracts" ADD COLUMN "revision" integer NOT NULL DEFAULT (0)`);
+    // The stored grazing-log PDF (documents table) that shows the record as it stands, and what it was made
+    // from (terms version and agreed figure): when the key no longer matches, a new version is due.
+    await q.query(`ALTER TABLE "contracts" ADD COLUMN "log_document_id" varchar(36)`);
+    await q.query(`ALTER TABLE "contracts" ADD COLUMN "log_document_key" varchar(120)`);
     await q.query(`CREATE INDEX "idx_contracts_grower_created" ON "contracts" ("grower_id", "created_at", "id")`);
     await q.query(`CREATE INDEX "idx_contracts_grazier_created" ON "contracts" ("grazier_id", "created_at", "id")`);
 
@@ -133,7 +137,7 @@ export class ContractSigningLog1765100000000 implements MigrationInterface {
     await q.query(`DROP TABLE "contract_signatures"`);
     await q.query(`DROP INDEX "idx_contracts_grazier_created"`);
     await q.query(`DROP INDEX "idx_contracts_grower_created"`);
-    for (const c of ['revision', 'cancel_reason', 'cancelled_by', 'cancelled_at', 'grazing_started_at', 'agreed_at', 'agreed_head_days', 'terms_hash', 'terms_text', 'terms', 'terms_version']) {
+    for (const c of ['log_document_key', 'log_document_id', 'revision', 'cancel_reason', 'cancelled_by', 'cancelled_at', 'grazing_started_at', 'agreed_at', 'agreed_head_days', 'terms_hash', 'terms_text', 'terms', 'terms_version']) {
       await q.query(`ALTER TABLE "contracts" DROP COLUMN "${c}"`);
     }
   }

@@ -1,10 +1,7 @@
-import { QueryFailedError } from 'typeorm';
-
-// A once-only rule that the database enforced (a unique index) surfaces as a driver error; the use case
-// turns it into its 409 or its idempotent answer. better-sqlite3 says SQLITE_CONSTRAINT_UNIQUE (or
-// SQLITE_CONSTRAINT_PRIMARYKEY); PostgreSQL says SQLSTATE 23505.
+/** True when a write failed on a unique index or key (SQLite via better-sqlite3, or PostgreSQL). */
 export function isUniqueViolation(err: unknown): boolean {
-  const driver = err instanceof QueryFailedError ? (err.driverError as { code?: unknown }) : (err as { code?: unknown } | null);
-  const code = driver?.code;
-  return code === 'SQLITE_CONSTRAINT_UNIQUE' || code === 'SQLITE_CONSTRAINT_PRIMARYKEY' || code === '23505';
+  const e = err as { code?: string; driverError?: { code?: string }; message?: string } | null;
+  const code = e?.driverError?.code ?? e?.code;
+  if (code === 'SQLITE_CONSTRAINT_UNIQUE' || code === 'SQLITE_CONSTRAINT_PRIMARYKEY' || code === '23505') return true;
+  return typeof e?.message === 'string' && e.message.includes('UNIQUE constraint failed');
 }

@@ -18,7 +18,8 @@ import { localDateKey, parseIsoInstant, startOfLocalDay } from '../../../lib/dat
 import { formatDay, formatNumber } from '../../../lib/format';
 import { GrazingInputError } from '../../../lib/grazing/errors';
 import { parseMoves } from '../../../lib/grazing/head-days';
-import { afterEndDateFlag, afterOutByFlag } from '../../../lib/grazing/log-figures';
+import { afterEndDateFlag } from '../../../lib/grazing/log-figures';
+import { afterOutByFlag } from '../../../lib/grazing/log-days';
 import {
   DEFAULT_LOG_PAGE,
   LOG_CLOCK_SKEW_MINUTES,

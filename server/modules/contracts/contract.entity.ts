@@ -107,6 +107,14 @@ export class Contract {
   @Column('integer', { default: 0 })
   revision: number;
 
+  /** The stored grazing-log PDF that shows the record as it stands (server/modules/documents). */
+  @Column('varchar', { name: 'log_document_id', length: 36, nullable: true })
+  logDocumentId: string | null;
+
+  /** What that file was made from (contract-documents.ts grazingLogSourceKey). */
+  @Column('varchar', { name: 'log_document_key', length: 120, nullable: true })
+  logDocumentKey: string | null;
+
   @CreateDateColumn({ name: 'created_at', type: 'datetime' })
   createdAt: Date;
 

@@ -11,6 +11,7 @@ import { closeAmendment, proposeAmendment } from './contract-amendments.service'
 import { addLogEntry, addLogPhoto, assertCanAddLogPhoto, listLog, openLogPhoto, voidLogEntry } from './contract-log.service';
 import { signOff } from './sign-off.service';
 import { grazingLogPdf } from './contract-documents';
+import { sendDocument } from '../documents/documents.download';
 import { MAX_PHOTO_BYTES } from '../../../lib/schemas/block';
 
 // Thin routes: read the request, call the use case, answer. Who may do what is the services' and the
@@ -105,16 +106,21 @@ export function contractsRouter(ctx: ServiceContext): Router {
     res.json({ contract: await signOff(ctx, signedIn(req), param(req, 'id'), req.body) });
   });
 
+  // The stored record through the documents module's download (ETag, 304); a draft of a log still being kept as it is made.
   router.get('/contracts/:id/log.pdf', auth, async (req, res) => {
     const file = await grazingLogPdf(ctx, signedIn(req), param(req, 'id'));
+    if ('stored' in file) {
+      res.set('X-Document-Version', String(file.stored.version));
+      return sendDocument(ctx, req, res, file.stored);
+    }
     res.set({
       'Content-Type': 'application/pdf',
       'Content-Disposition': `attachment; filename="${file.fileName}"`,
       'Cache-Control': 'private, no-store',
       'X-Content-Type-Options': 'nosniff',
-      'X-Document-Version': String(file.version),
+      'X-Document-Version': '0',
     });
-    res.send(file.bytes);
+    res.send(file.draft);
   });
 
   return router;

@@ -64,6 +64,8 @@ export async function createContract(tx: EntityManager, block: Block, bid: Bid):
     cancelledBy: null,
     cancelReason: null,
     revision: 0,
+    logDocumentId: null,
+    logDocumentKey: null,
   });
   await tx.insert(Contract, contract);
   return tx.findOneByOrFail(Contract, { id });
