@@ -8,8 +8,8 @@ import { blocksRouter } from './modules/blocks/blocks.routes';
 import { bidsRouter } from './modules/bids/bids.routes';
 import { contractsRouter } from './modules/contracts/contracts.routes';
 import { errorHandler, notFoundHandler } from './lib/errors/error-handler';
-import type { MailPort } from './lib/mail/mail-port';
-import { MemoryMail } from './lib/mail/memory-mail';
+import type { MailOutbox } from './lib/mail/outbox';
+import { appLinks } from './lib/mail/links';
 import { localPhotoStore } from './lib/storage/photo-store';
 import type { ServiceContext } from './lib/service-context';
 
@@ -22,9 +22,11 @@ export interface AppDeps {
   log?: (msg: string) => void;
   /** Where block photos are stored (DATA_DIR/uploads in production, a temp folder in tests); outside the web root. */
   uploadsDir: string;
-  /** Outgoing mail; defaults to an in-memory outbox (the SMTP adapter comes with the payments issue). */
-  mail?: MailPort;
-  /** Clock in epoch ms, for "today" at a block; tests fix it. */
+  /** The mail outbox's sender (server/lib/mail/outbox.ts): use cases queue mail, then kick it after commit. */
+  outbox: MailOutbox;
+  /** Where people open Fieldfold (links in mail); default http://localhost:8080. */
+  publicUrl?: string;
+  /** Clock in epoch ms, for "today" at a block, sessions and mail; tests fix it. */
   now?: () => number;
 }
 
@@ -48,19 +50,20 @@ export function createApp(deps: AppDeps): Express {
     await deps.dataSource.query('SELECT 1');
     res.json({ ok: true, service: 'fieldfold' });
   });
-  api.use(accountsRouter(deps.dataSource, deps.tokens));
-  api.use('/calc', calcRouter());
-  const market: ServiceContext = {
+  const ctx: ServiceContext = {
     ds: deps.dataSource,
-    mail: deps.mail ?? new MemoryMail(undefined, 500),
+    outbox: deps.outbox,
+    links: appLinks(deps.publicUrl ?? 'http://localhost:8080'),
     now: deps.now ?? Date.now,
     log: deps.log ?? console.error,
     photos: localPhotoStore(deps.uploadsDir),
     tokenSecret: deps.tokens.secret,
   };
-  api.use(blocksRouter(market));
-  api.use(bidsRouter(market));
-  api.use(contractsRouter(market));
+  api.use(accountsRouter(ctx, deps.tokens));
+  api.use('/calc', calcRouter());
+  api.use(blocksRouter(ctx));
+  api.use(bidsRouter(ctx));
+  api.use(contractsRouter(ctx));
   api.use(notFoundHandler);
   app.use('/api', api);
 

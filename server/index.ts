@@ -5,6 +5,7 @@ import { openDatabase } from './db/data-source';
 import { seedDemoOnce } from './db/seed/demo';
 import { createApp } from './app';
 import { MemoryMail } from './lib/mail/memory-mail';
+import { OutboxSender } from './lib/mail/outbox';
 
 // config → database (migrations) → demo seed (once) → listen → graceful shutdown.
 async function main() {
@@ -16,13 +17,16 @@ async function main() {
   }
   // Until the SMTP sink arrives, mail stays in memory and each message is announced by subject only.
   const mail = new MemoryMail((msg) => console.log(`[mail] ${msg.subject}`), 500);
+  const outbox = new OutboxSender(dataSource, mail, Date.now, console.error);
+  outbox.start();
   const app = createApp({
     dataSource,
     tokens: { secret: config.tokenSecret, ttl: config.tokenTtl },
     webDir: config.webDir,
     corsOrigin: config.corsOrigin,
     uploadsDir: path.join(config.dataDir, 'uploads'),
-    mail,
+    outbox,
+    publicUrl: config.publicUrl,
   });
   const server: Server = app.listen(config.port, config.host, () => {
     const addr = server.address();
@@ -36,6 +40,7 @@ async function main() {
     closing = true;
     console.log(`[fieldfold] ${signal}: closing`);
     server.close(async () => {
+      await outbox.stop();
       await dataSource.destroy();
       process.exit(0);
     });

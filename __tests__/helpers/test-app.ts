@@ -6,8 +6,10 @@ import type { DataSource } from 'typeorm';
 import { openDatabase } from '../../server/db/data-source';
 import { createApp } from '../../server/app';
 import { MemoryMail } from '../../server/lib/mail/memory-mail';
+import { OutboxSender } from '../../server/lib/mail/outbox';
 
-export const TEST_TOKENS = { secret: 'test-secret-that-is-long-enough-to-sign-tokens', ttl: '1h' };
+// Long enough that tests may move the app's clock through a season without the session expiring.
+export const TEST_TOKENS = { secret: 'test-secret-that-is-long-enough-to-sign-tokens', ttl: '400d' };
 
 /** "Now" in the tests unless a test moves the clock: 1 Dec 2026, noon in California (blocks' default zone). */
 export const TEST_NOW = Date.parse('2026-12-01T12:00:00-08:00');
@@ -25,13 +27,18 @@ export async function makeTestApp(options: TestAppOptions = {}) {
   const uploadsDir = fs.mkdtempSync(path.join(os.tmpdir(), 'fieldfold-uploads-'));
   const mail = new MemoryMail();
   const clock = { now: TEST_NOW };
+  const now = () => clock.now;
+  const log = options.log ?? (() => {});
+  // The real outbox on the test database; tests call deliverMail() to run the sender to the end.
+  const outbox = new OutboxSender(dataSource, options.mail ?? mail, now, log);
   const app = createApp({
     dataSource,
     tokens: TEST_TOKENS,
-    log: options.log ?? (() => {}),
+    log,
     uploadsDir,
-    mail: options.mail ?? mail,
-    now: () => clock.now,
+    outbox,
+    publicUrl: 'http://fieldfold.test',
+    now,
   });
   let n = 0;
   async function signUp(roles: Array<'grower' | 'grazier'>, name = 'Test Person') {
@@ -45,14 +52,18 @@ export async function makeTestApp(options: TestAppOptions = {}) {
     app,
     dataSource,
     signUp,
-    /** Everything the app mailed, oldest first. */
+    /** Everything the app mailed, oldest first (after deliverMail()). */
     mail,
+    outbox,
+    /** Runs the outbox sender until nothing due is left; resolves with how many were sent. */
+    deliverMail: () => outbox.drain(),
     uploadsDir,
     /** Moves the app's clock (ISO instant with offset). */
     setNow: (iso: string) => {
       clock.now = Date.parse(iso);
     },
     close: async () => {
+      await outbox.stop();
       await (dataSource as DataSource).destroy();
       fs.rmSync(uploadsDir, { recursive: true, force: true });
     },

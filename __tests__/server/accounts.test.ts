@@ -1,6 +1,6 @@
 import request from 'supertest';
 import jwt from 'jsonwebtoken';
-import { makeTestApp, TEST_TOKENS } from '../helpers/test-app';
+import { makeTestApp, TEST_NOW, TEST_TOKENS } from '../helpers/test-app';
 
 let t: Awaited<ReturnType<typeof makeTestApp>>;
 beforeEach(async () => {
@@ -104,7 +104,7 @@ describe('GET /api/me with a bad token', () => {
     expect((await request(t.app).get('/api/me').set('Authorization', 'Bearer nonsense')).status).toBe(401);
     const forged = jwt.sign({ sid: 'x' }, 'another-secret-another-secret-another', { subject: user.id });
     expect((await request(t.app).get('/api/me').set('Authorization', `Bearer ${forged}`)).status).toBe(401);
-    const expired = jwt.sign({ sid: 'x', exp: Math.floor(Date.now() / 1000) - 10 }, TEST_TOKENS.secret, { subject: user.id });
+    const expired = jwt.sign({ sid: 'x', exp: Math.floor(TEST_NOW / 1000) - 10 }, TEST_TOKENS.secret, { subject: user.id });
     const res = await request(t.app).get('/api/me').set('Authorization', `Bearer ${expired}`);
     expect(res.status).toBe(401);
     expect(res.body.error.code).toBe('unauthenticated');

@@ -1,4 +1,5 @@
-import { makeTestApp } from '../helpers/test-app';
+import { makeTestApp, TEST_NOW } from '../helpers/test-app';
+import { pendingMail } from '../../server/lib/mail/outbox';
 import { bidBody, market } from '../helpers/market';
 import { normaliseBid } from '../../lib/grazing/bid-compare';
 import { Contract } from '../../server/modules/contracts/contract.entity';
@@ -44,6 +45,7 @@ describe('the market journey', () => {
     expect(w.normalised).toEqual(normaliseBid({ ...w, basis: 'head-day', rate: '0.18' } as never, { acres: 80, lbDmPerAcre: 2000, targetUtilizationPct: 45 }));
 
     // The grower was mailed for each bid.
+    await t.deliverMail();
     expect(t.mail.to(greta.email).map((x) => x.subject)).toEqual(['New bid on North bench walnut middles', 'New bid on North bench walnut middles']);
     expect(t.mail.to(greta.email)[0].text).toMatch(/600 sheep, 2027-01-27 to 2027-02-14 \(18 days, 10800 head-days\), \$0\.18 per head-day: estimated total \$1,944\.00/);
 
@@ -57,6 +59,7 @@ describe('the market journey', () => {
     expect(byGrazier['Mirela Haas'].grazier).toMatchObject({ completedContracts: 0 });
 
     // The grower awards Wade's bid.
+    await t.deliverMail();
     t.mail.clear();
     const award = await m.api().post(`/api/bids/${w.id}/award`).set(greta.auth);
     expect(award.status).toBe(201);
@@ -80,6 +83,7 @@ describe('the market journey', () => {
     const after = await m.api().get(`/api/blocks/${blockId}/bids`).set(greta.auth);
     expect(Object.fromEntries(after.body.items.map((b: { id: string; status: string }) => [b.id, b.status]))).toEqual({ [w.id]: 'accepted', [z.id]: 'declined' });
     expect((await m.api().get(`/api/blocks/${blockId}`).set(greta.auth)).body.block.status).toBe('awarded');
+    await t.deliverMail();
     expect(t.mail.to(wade.email).map((x) => x.subject)).toEqual(['Your bid on North bench walnut middles was accepted']);
     expect(t.mail.to(mirela.email).map((x) => x.subject)).toEqual(['Your bid on North bench walnut middles was not chosen']);
 
@@ -176,6 +180,7 @@ describe('POST /api/blocks/:id/bids', () => {
     const bid = await m.bid(await m.grazier(), b.id, { basis: 'flat', rate: '4200', startDate: '2027-01-20', endDate: '2027-02-03' });
     expect(bid.normalised.overgrazes).toBe(true);
     expect(bid.normalised.predictedUtilizationPct).toBeCloseTo(48.6111, 3);
+    await t.deliverMail();
     expect(t.mail.to(g.email)[0].text).toMatch(/Predicted utilisation 49 % is above your target of 40 %/);
   });
 });
@@ -224,6 +229,7 @@ describe('who may see and change a bid', () => {
     const ok = await m.api().patch(`/api/bids/${bid.id}`).set(z.auth).send({ endDate: '2027-02-05', rate: '0.200' });
     expect(ok.status).toBe(200);
     expect(ok.body.bid).toMatchObject({ endDate: '2027-02-05', rate: '0.20', normalised: { days: 26 } });
+    await t.deliverMail();
     expect(t.mail.to(g.email).map((x) => x.subject)).toContain('Bid changed on North bench walnut middles');
     const bad = await m.api().patch(`/api/bids/${bid.id}`).set(z.auth).send({ endDate: '2027-03-04' });
     expect(bad.status).toBe(400);
@@ -290,18 +296,32 @@ describe('POST /api/bids/:id/award', () => {
     expect(res.body.error.code).toBe('bid_not_live');
   });
 
-  it('When the mail server fails, then the award still stands and the failure is logged', async () => {
+  it('When the mail server is down, then the award still stands, the mail waits in the outbox and goes once the server is back', async () => {
     await t.close();
     const logged: string[] = [];
-    t = await makeTestApp({ log: (msg) => logged.push(msg), mail: { send: async () => Promise.reject(new Error('mail server down')) } });
+    const delivered: string[] = [];
+    let up = false;
+    t = await makeTestApp({
+      log: (msg) => logged.push(msg),
+      mail: { send: async (msg) => (up ? void delivered.push(msg.subject) : Promise.reject(new Error('mail server down'))) },
+    });
     m = market(t);
     const g = await m.grower();
     const b = await m.openBlock(g);
     const bid = await m.bid(await m.grazier(), b.id);
     const res = await m.api().post(`/api/bids/${bid.id}/award`).set(g.auth);
     expect(res.status).toBe(201);
+    await t.deliverMail();
     expect(await t.dataSource.getRepository(Contract).countBy({ blockId: b.id })).toBe(1);
-    expect(logged.some((l) => /\[mail\] could not send "Your bid on .* was accepted": mail server down/.test(l))).toBe(true);
+    expect(logged.some((l) => /\[mail\] "Your bid on .* was accepted" not sent \(attempt 1\), retrying in 5 s: mail server down/.test(l))).toBe(true);
+    expect(await pendingMail(t.dataSource)).toBeGreaterThan(0);
+    // Back up, and past the backoff: every waiting message goes, each once.
+    up = true;
+    t.setNow(new Date(TEST_NOW + 60_000).toISOString());
+    await t.deliverMail();
+    await t.deliverMail();
+    expect(delivered.filter((s) => /was accepted/.test(s))).toHaveLength(1);
+    expect(await pendingMail(t.dataSource)).toBe(0);
   });
 });
 
@@ -327,6 +347,7 @@ describe('editing an open block that has live bids', () => {
     expect(res.body.block.earliestSafeDate).toBe('2027-01-27');
     const seen = await m.api().get(`/api/bids/${bid.id}`).set(z.auth);
     expect(seen.body.bid.conflicts).toEqual([{ field: 'startDate', message: expect.stringMatching(/earliest safe date is 2027-01-27/) }]);
+    await t.deliverMail();
     const mail = t.mail.to(z.email).at(-1)!;
     expect(mail.subject).toBe('Block changed: North bench walnut middles');
     expect(mail.text).toMatch(/Changed: sprayRecords\..*cannot be awarded until you change it/s);
@@ -345,6 +366,7 @@ describe('editing an open block that has live bids', () => {
     const res = await m.api().post(`/api/blocks/${b.id}/withdraw`).set(g.auth);
     expect(res.body.block.status).toBe('withdrawn');
     expect((await m.api().get(`/api/bids/${bid.id}`).set(z.auth)).body.bid.status).toBe('declined');
+    await t.deliverMail();
     expect(t.mail.to(z.email).map((x) => x.subject)).toContain('Block withdrawn: North bench walnut middles');
     expect((await m.api().post(`/api/blocks/${b.id}/withdraw`).set(g.auth)).status).toBe(409);
   });

@@ -10,8 +10,9 @@ import { useLayout } from '@/hooks/use-layout';
 import { useAwardBid, useBlockBids } from '@/hooks/api/bids';
 import { ApiError } from '@/hooks/api/client';
 import { BID_SORT_KEYS, sortBids, type BidSortKey } from './bid-sorting';
+import { BASIS_UNIT } from '@/lib/terms';
 
-const BASIS_UNIT = { 'head-day': 'per head-day', acre: 'per acre', flat: 'for the job' } as const;
+
 /** Declined and withdrawn bids stay listed for the record, dimmed; the accepted one stays bright. */
 const isSetAside = (b: BidView) => b.status === 'declined' || b.status === 'withdrawn';
 

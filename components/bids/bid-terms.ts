@@ -1,25 +1,7 @@
-import type { ChargeBasis } from '@/lib/money';
 import type { BidStatus } from '@/lib/schemas/bid';
-import { formatDayRange, formatNumber } from '@/lib/format';
 
-// Fieldfold's words for a bid's terms, shared by the bid form, My bids and the contract pages.
-
-export const BASIS_OPTIONS: ReadonlyArray<{ value: ChargeBasis; label: string }> = [
-  { value: 'head-day', label: 'Per head-day' },
-  { value: 'acre', label: 'Per acre' },
-  { value: 'flat', label: 'Flat price' },
-];
-
-/** What the rate field's unit says for each basis. */
-export const RATE_UNIT: Record<ChargeBasis, string> = { 'head-day': '$ per head-day', acre: '$ per acre', flat: '$ for the job' };
-
-/** "$0.18 per head-day", "$22.50 per acre", "$4,200.00 for the job" — the rate as the grazier wrote it, grouped. */
-export function formatRate(basis: ChargeBasis, rate: string): string {
-  const [whole, frac = ''] = rate.split('.');
-  const grouped = whole.replace(/\B(?=(\d{3})+(?!\d))/g, ',');
-  const money = `$${grouped}.${frac.padEnd(2, '0')}`;
-  return basis === 'head-day' ? `${money} per head-day` : basis === 'acre' ? `${money} per acre` : `${money} for the job`;
-}
+// The words for a bid's terms live once in lib/terms.ts (mail and PDFs use them too); re-exported here for screens.
+export { BASIS_OPTIONS, BASIS_UNIT, RATE_UNIT, formatRate, stayLine } from '@/lib/terms';
 
 /** "$0.1800" from normaliseBid's 4-decimal rate text. */
 export function formatHeadDayRate(rate4: string): string {
@@ -32,8 +14,3 @@ export const BID_STATUS_LABELS: Record<BidStatus, string> = {
   declined: 'Declined',
   withdrawn: 'Withdrawn by you',
 };
-
-/** "600 dry ewes (sheep), 150 lb · Jan 5 – Jan 19, 2027" */
-export function stayLine(t: { headCount: number; animalClass: string; species: string; bodyWeightLb: number; startDate: string; endDate: string }): string {
-  return `${formatNumber(t.headCount)} ${t.animalClass} (${t.species}), ${formatNumber(t.bodyWeightLb)} lb · ${formatDayRange(t.startDate, t.endDate)}`;
-}

@@ -1,21 +1,17 @@
 import { StyleSheet, View } from 'react-native';
-import type { ContractStatus } from '@/lib/schemas/contract';
+import { CONTRACT_STATUS_LABELS, type ContractStatus } from '@/lib/schemas/contract';
 import { Text } from '@/components/ui';
 import { colors, radius, space } from '@/components/ui/theme';
 
-// Fieldfold's words for each state of a contract. Signing arrives in the next release, and the first
-// state says so plainly rather than offering a button that does nothing.
-export const CONTRACT_STATUS_LABELS: Record<ContractStatus, string> = {
-  'to-sign': 'Awaiting signatures — signing comes next',
-  signed: 'Signed by both',
-  completed: 'Completed',
-  cancelled: 'Cancelled',
-};
-
+// The words for each state live in lib/schemas/contract.ts (mail and PDFs say the same); the look is here.
 const look: Record<ContractStatus, { bg: string; tone: 'caution' | 'cover' | 'ink' | 'muted' }> = {
   'to-sign': { bg: colors.cautionWash, tone: 'caution' },
   signed: { bg: colors.coverWash, tone: 'cover' },
-  completed: { bg: colors.skyWash, tone: 'ink' },
+  grazing: { bg: colors.coverWash, tone: 'cover' },
+  'sign-off': { bg: colors.cautionWash, tone: 'caution' },
+  agreed: { bg: colors.skyWash, tone: 'ink' },
+  invoiced: { bg: colors.skyWash, tone: 'ink' },
+  paid: { bg: colors.coverWash, tone: 'cover' },
   cancelled: { bg: colors.surfaceSunk, tone: 'muted' },
 };
 

@@ -5,13 +5,15 @@ import { Block } from '../modules/blocks/block.entity';
 import { BlockPhoto } from '../modules/blocks/block-photo.entity';
 import { Bid } from '../modules/bids/bid.entity';
 import { Contract } from '../modules/contracts/contract.entity';
+import { OutboxMessage } from '../lib/mail/outbox.entity';
 import { Accounts1764600000000 } from './migrations/1764600000000-accounts';
 import { Blocks1764700000000 } from './migrations/1764700000000-blocks';
 import { Bids1764700100000 } from './migrations/1764700100000-bids';
 import { Contracts1764700200000 } from './migrations/1764700200000-contracts';
+import { MailOutbox1765000000000 } from './migrations/1765000000000-mail-outbox';
 
-export const entities = [Account, Session, Block, BlockPhoto, Bid, Contract];
-export const migrations = [Accounts1764600000000, Blocks1764700000000, Bids1764700100000, Contracts1764700200000];
+export const entities = [Account, Session, Block, BlockPhoto, Bid, Contract, OutboxMessage];
+export const migrations = [Accounts1764600000000, Blocks1764700000000, Bids1764700100000, Contracts1764700200000, MailOutbox1765000000000];
 
 /** `database` is a file path, or ':memory:' for tests. Migrations only; never synchronize. */
 export function createDataSource(database: string): DataSource {

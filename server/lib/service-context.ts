@@ -1,11 +1,19 @@
 import type { DataSource } from 'typeorm';
-import type { MailPort } from './mail/mail-port';
+import type { MailOutbox } from './mail/outbox';
+import type { AppLinks } from './mail/links';
 import type { PhotoStore } from './storage/photo-store';
 
-/** What the marketplace services need from the outside world; routes build it once from AppDeps. */
+/**
+ * What the business modules need from the outside world, built once by createApp from AppDeps. Every hosted
+ * service is a port injected here (server/index.ts wires the real adapters, tests their own): nothing in a
+ * module reads the clock, the mail server, the file system or a payments API any other way.
+ */
 export interface ServiceContext {
   ds: DataSource;
-  mail: MailPort;
+  /** Mail is written to the outbox inside the use case's transaction (queueMail); kick() after commit. */
+  outbox: MailOutbox;
+  /** Links into the app for mail and documents (from PUBLIC_URL). */
+  links: AppLinks;
   /** Epoch ms. Injected so tests and the demo seed can fix "today" (a block's days are in its own zone). */
   now: () => number;
   log: (msg: string) => void;

@@ -29,7 +29,7 @@ export function hasRole(account: Account, role: Role): boolean {
 }
 
 /** 401 unless the bearer token is valid, unexpired and its session still open. */
-export function requireAuth(ds: DataSource, secret: string): RequestHandler {
+export function requireAuth(ds: DataSource, secret: string, now: () => number = Date.now): RequestHandler {
   return async (req, _res, next) => {
     try {
       const header = req.get('authorization') ?? '';
@@ -37,14 +37,14 @@ export function requireAuth(ds: DataSource, secret: string): RequestHandler {
       if (!match) throw AppError.unauthenticated();
       let claims: TokenClaims;
       try {
-        claims = jwt.verify(match[1], secret, { algorithms: ['HS256'] }) as TokenClaims;
+        claims = jwt.verify(match[1], secret, { algorithms: ['HS256'], clockTimestamp: Math.floor(now() / 1000) }) as TokenClaims;
       } catch {
         throw AppError.unauthenticated('Your sign-in has expired or is not valid. Sign in again.');
       }
       // Other tokens signed with the same secret (photo access links) carry no session: never a sign-in.
       if (typeof claims.sid !== 'string' || typeof claims.sub !== 'string') throw AppError.unauthenticated('Your sign-in is not valid. Sign in again.');
       const session = await ds.getRepository(Session).findOneBy({ id: claims.sid, accountId: claims.sub });
-      if (!session || session.expiresAt.getTime() < Date.now()) throw AppError.unauthenticated('You have been signed out. Sign in again.');
+      if (!session || session.expiresAt.getTime() < now()) throw AppError.unauthenticated('You have been signed out. Sign in again.');
       const account = await ds.getRepository(Account).findOneBy({ id: claims.sub });
       if (!account) throw AppError.unauthenticated();
       req.account = account;

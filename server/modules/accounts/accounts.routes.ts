@@ -1,17 +1,19 @@
 import { Router } from 'express';
-import type { DataSource } from 'typeorm';
+import type { ServiceContext } from '../../lib/service-context';
 import { validateBody } from '../../lib/http/validate';
 import { requireAuth, signedIn } from '../../lib/http/auth';
 import { AttemptLimiter } from '../../lib/http/rate-limit';
 import { loginSchema, profileSchema, registerSchema } from '../../../lib/schemas/account';
 import { login, logout, register, toAccountView, updateProfile, type TokenSettings } from './accounts.service';
 
-export function accountsRouter(ds: DataSource, tokens: TokenSettings): Router {
+export function accountsRouter(ctx: ServiceContext, tokenSettings: Omit<TokenSettings, 'now'>): Router {
   const router = Router();
-  const auth = requireAuth(ds, tokens.secret);
+  const { ds } = ctx;
+  const tokens: TokenSettings = { ...tokenSettings, now: ctx.now };
+  const auth = requireAuth(ds, tokens.secret, ctx.now);
   // 10 failures per address per 15 minutes, and 20 per source IP, before a 429.
-  const perEmail = new AttemptLimiter(10, 15 * 60_000);
-  const perIp = new AttemptLimiter(20, 15 * 60_000);
+  const perEmail = new AttemptLimiter(10, 15 * 60_000, ctx.now);
+  const perIp = new AttemptLimiter(20, 15 * 60_000, ctx.now);
 
   router.post('/auth/register', validateBody(registerSchema), async (req, res) => {
     res.status(201).json(await register(ds, req.body, tokens));

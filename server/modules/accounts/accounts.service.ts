@@ -12,6 +12,8 @@ import type { Role } from '../../../lib/roles';
 export interface TokenSettings {
   secret: string;
   ttl: string; // like "7d"
+  /** The app's clock in epoch ms (injected; tests fix it). */
+  now?: () => number;
 }
 
 const BCRYPT_COST = 10;
@@ -48,10 +50,10 @@ async function openSession(ds: DataSource, account: Account, tokens: TokenSettin
   const session = ds.getRepository(Session).create({
     id: crypto.randomUUID(),
     accountId: account.id,
-    expiresAt: new Date(Date.now() + ttlMs(tokens.ttl)),
+    expiresAt: new Date((tokens.now ?? Date.now)() + ttlMs(tokens.ttl)),
   });
   await inTransaction(ds, (tx) => tx.getRepository(Session).save(session));
-  const token = jwt.sign({ sid: session.id }, tokens.secret, {
+  const token = jwt.sign({ sid: session.id, iat: Math.floor((tokens.now ?? Date.now)() / 1000) }, tokens.secret, {
     subject: account.id,
     algorithm: 'HS256',
     expiresIn: Math.floor(ttlMs(tokens.ttl) / 1000),

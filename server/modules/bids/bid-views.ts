@@ -8,6 +8,7 @@ import { normaliseBid } from '../../../lib/grazing/bid-compare';
 import { stayConflicts } from '../../../lib/grazing/graze-window';
 import { cautionsForBlock } from '../../../lib/grazing/safety';
 import type { BidInput, BidView } from '../../../lib/schemas/bid';
+import { pickTerms } from '../../../lib/terms';
 
 /** Completed contracts per grazier: their record on Fieldfold. */
 export async function completedContracts(em: EntityManager, grazierIds: string[]): Promise<Map<string, number>> {
@@ -16,7 +17,7 @@ export async function completedContracts(em: EntityManager, grazierIds: string[]
     .createQueryBuilder(Contract, 'c')
     .select('c.grazier_id', 'grazierId')
     .addSelect('COUNT(*)', 'n')
-    .where("c.status = 'completed'")
+    .where("c.status IN ('agreed', 'invoiced', 'paid')")
     .andWhere('c.grazier_id IN (:...ids)', { ids: grazierIds })
     .groupBy('c.grazier_id')
     .getRawMany();
@@ -24,18 +25,7 @@ export async function completedContracts(em: EntityManager, grazierIds: string[]
 }
 
 export function bidInputOf(b: Bid): BidInput {
-  return {
-    basis: b.basis,
-    rate: b.rate,
-    headCount: b.headCount,
-    species: b.species,
-    animalClass: b.animalClass,
-    bodyWeightLb: b.bodyWeightLb,
-    startDate: b.startDate,
-    endDate: b.endDate,
-    services: b.services,
-    note: b.note,
-  };
+  return { ...pickTerms(b), note: b.note };
 }
 
 /**

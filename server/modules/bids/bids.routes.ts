@@ -6,7 +6,7 @@ import { awardBid, getBid, listBlockBids, listMyBids, placeBid, updateBid, withd
 
 export function bidsRouter(ctx: ServiceContext): Router {
   const router = Router();
-  const auth = requireAuth(ctx.ds, ctx.tokenSecret);
+  const auth = requireAuth(ctx.ds, ctx.tokenSecret, ctx.now);
   const grazier = requireRole('grazier');
   const grower = requireRole('grower');
 

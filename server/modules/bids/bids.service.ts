@@ -3,7 +3,8 @@ import type { EntityManager } from 'typeorm';
 import { AppError } from '../../lib/errors/app-error';
 import { check } from '../../lib/http/validate';
 import { inTransaction } from '../../lib/db/transaction';
-import { sendAll, type MailMessage } from '../../lib/mail/mail-port';
+import { queueMail } from '../../lib/mail/outbox';
+import { awardMails, bidToGrowerMails } from './bids.mails';
 import type { ServiceContext } from '../../lib/service-context';
 import { Account } from '../accounts/account.entity';
 import { Block } from '../blocks/block.entity';
@@ -16,7 +17,7 @@ import { bidInputOf, bidViews } from './bid-views';
 import { stayConflicts } from '../../../lib/grazing/graze-window';
 import { normaliseBid } from '../../../lib/grazing/bid-compare';
 import { GrazingInputError } from '../../../lib/grazing/errors';
-import { formatCents, parseRate, rateToString } from '../../../lib/money';
+import { parseRate, rateToString } from '../../../lib/money';
 import { todayIn } from '../../../lib/day-keys';
 import { BID_STATUSES, bidInputSchema, type BidInput, type BidStatus, type BidView } from '../../../lib/schemas/bid';
 import type { ContractView } from '../../../lib/schemas/contract';
@@ -69,14 +70,10 @@ async function viewOf(em: EntityManager, id: string): Promise<BidView> {
   return (await bidViews(em, [await em.findOneByOrFail(Bid, { id })]))[0];
 }
 
-async function emailOf(em: EntityManager, accountId: string): Promise<string | null> {
-  return (await em.findOne(Account, { where: { id: accountId }, select: { id: true, email: true } }))?.email ?? null;
-}
-
 /** A grazier bids on an open block: the stay must fit the block's window, spray restrictions and out-by date. */
 export async function placeBid(ctx: ServiceContext, caller: Account, blockId: string, body: unknown): Promise<BidView> {
   const input = await checkBid(body);
-  const { bid, block } = await inTransaction(ctx.ds, async (tx) => {
+  const { bid } = await inTransaction(ctx.ds, async (tx) => {
     const block = await tx.findOneBy(Block, { id: blockId });
     assertCanViewBlock(caller, block, await blockFacts(tx, caller, block));
     assertCanBidOn(caller, block);
@@ -87,17 +84,17 @@ export async function placeBid(ctx: ServiceContext, caller: Account, blockId: st
     assertPriceable(input, block);
     const bid = tx.create(Bid, { id: crypto.randomUUID(), blockId, grazierId: caller.id, status: 'live', ...bidRecord(input) });
     await tx.insert(Bid, bid);
-    return { bid, block };
+    await queueMail(tx, await bidToGrowerMails(tx, ctx.links, block, await viewOf(tx, bid.id), 'New bid'), ctx.now());
+    return { bid };
   });
-  const view = await viewOf(ctx.ds.manager, bid.id);
-  await sendAll(ctx.mail, await growerMail(ctx, block, view, 'New bid'), ctx.log);
-  return view;
+  ctx.outbox.kick();
+  return viewOf(ctx.ds.manager, bid.id);
 }
 
 /** The grazier changes their live bid; it is checked again in full against the block as it is now. */
 export async function updateBid(ctx: ServiceContext, caller: Account, bidId: string, patch: unknown): Promise<BidView> {
   if (patch === null || typeof patch !== 'object' || Array.isArray(patch)) throw AppError.badRequest('The request body must be a JSON object');
-  const { block } = await inTransaction(ctx.ds, async (tx) => {
+  await inTransaction(ctx.ds, async (tx) => {
     const bid = await tx.findOneBy(Bid, { id: bidId });
     const block = bid ? await tx.findOneBy(Block, { id: bid.blockId }) : null;
     assertBidder(caller, bid, block);
@@ -107,11 +104,10 @@ export async function updateBid(ctx: ServiceContext, caller: Account, bidId: str
     assertStayFits(stayConflicts(input, block!, todayAt(ctx, block!)));
     assertPriceable(input, block!);
     await tx.update(Bid, { id: bid.id, status: 'live' }, bidRecord(input));
-    return { block: block! };
+    await queueMail(tx, await bidToGrowerMails(tx, ctx.links, block!, await viewOf(tx, bid.id), 'Bid changed'), ctx.now());
   });
-  const view = await viewOf(ctx.ds.manager, bidId);
-  await sendAll(ctx.mail, await growerMail(ctx, block, view, 'Bid changed'), ctx.log);
-  return view;
+  ctx.outbox.kick();
+  return viewOf(ctx.ds.manager, bidId);
 }
 
 export async function withdrawBid(ctx: ServiceContext, caller: Account, bidId: string): Promise<BidView> {
@@ -175,7 +171,7 @@ export async function listMyBids(ctx: ServiceContext, viewer: Account, query: Re
  * after the commit; a mail failure is logged and never undoes the award.
  */
 export async function awardBid(ctx: ServiceContext, caller: Account, bidId: string): Promise<ContractView> {
-  const { contract, block, winner, declined } = await inTransaction(ctx.ds, async (tx) => {
+  const { contract } = await inTransaction(ctx.ds, async (tx) => {
     const bid = await tx.findOneBy(Bid, { id: bidId });
     const block = bid ? await tx.findOneBy(Block, { id: bid.blockId }) : null;
     assertAwarder(caller, bid, block);
@@ -188,10 +184,11 @@ export async function awardBid(ctx: ServiceContext, caller: Account, bidId: stri
     const declined = await declineOtherBids(tx, bid, at);
     await markBlockAwarded(tx, block!, at);
     const contract = await createContract(tx, block!, bid);
-    return { contract, block: block!, winner: bid, declined };
+    await queueMail(tx, await awardMails(tx, ctx.links, block!, bid, declined, contract.id), ctx.now());
+    return { contract };
   });
+  ctx.outbox.kick();
   const [view] = await contractViews(ctx.ds.manager, [contract]);
-  await sendAll(ctx.mail, await awardMails(ctx, block, winner, declined), ctx.log);
   return view;
 }
 
@@ -210,59 +207,4 @@ async function declineOtherBids(tx: EntityManager, winner: Bid, at: Date): Promi
 export async function markBlockAwarded(tx: EntityManager, block: Block, at: Date): Promise<void> {
   const res = await tx.update(Block, { id: block.id, status: 'open' }, { status: 'awarded', awardedAt: at });
   if (res.affected !== 1) throw AppError.conflict('This block has already been awarded', 'already_awarded');
-}
-
-// ——— mail ———
-
-function describe(view: Pick<BidView, 'headCount' | 'species' | 'startDate' | 'endDate' | 'basis' | 'rate' | 'normalised'>): string {
-  const unit = view.basis === 'head-day' ? 'per head-day' : view.basis === 'acre' ? 'per acre' : 'flat';
-  return (
-    `${view.headCount} ${view.species}, ${view.startDate} to ${view.endDate} (${view.normalised.days} days, ${view.normalised.headDays} head-days), ` +
-    `$${view.rate} ${unit}: estimated total ${formatCents(view.normalised.estimatedTotalCents)}`
-  );
-}
-
-async function growerMail(ctx: ServiceContext, block: Block, view: BidView, what: 'New bid' | 'Bid changed'): Promise<MailMessage[]> {
-  const to = await emailOf(ctx.ds.manager, block.ownerId);
-  if (!to) return [];
-  const grazier = view.grazier.businessName ?? view.grazier.name;
-  return [
-    {
-      to,
-      subject: `${what} on ${block.name}`,
-      text:
-        `${grazier} ${what === 'New bid' ? 'bid on' : 'changed their bid on'} ${block.name}: ${describe(view)}.\n` +
-        (view.normalised.overgrazes
-          ? `Predicted utilisation ${view.normalised.predictedUtilizationPct.toFixed(0)} % is above your target of ${view.normalised.targetUtilizationPct} %.\n`
-          : '') +
-        '\nCompare the bids on the block in Fieldfold.',
-    },
-  ];
-}
-
-async function awardMails(ctx: ServiceContext, block: Block, winner: Bid, declined: Bid[]): Promise<MailMessage[]> {
-  const em = ctx.ds.manager;
-  const out: MailMessage[] = [];
-  const winnerEmail = await emailOf(em, winner.grazierId);
-  if (winnerEmail) {
-    const n = normaliseBid(winner, block);
-    out.push({
-      to: winnerEmail,
-      subject: `Your bid on ${block.name} was accepted`,
-      text:
-        `The grower accepted your bid on ${block.name}: ${describe({ ...winner, normalised: n })}. ` +
-        `Animals must be out by ${block.outBy}.\n\nA contract is ready for both of you to sign in Fieldfold.`,
-    });
-  }
-  for (const bid of declined) {
-    const to = await emailOf(em, bid.grazierId);
-    if (to) {
-      out.push({
-        to,
-        subject: `Your bid on ${block.name} was not chosen`,
-        text: `The grower awarded ${block.name} to another bid. Your bid for ${bid.startDate} to ${bid.endDate} is closed; thank you for bidding.`,
-      });
-    }
-  }
-  return out;
 }

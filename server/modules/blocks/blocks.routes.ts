@@ -25,7 +25,7 @@ function uploadError(err: unknown): AppError {
 
 export function blocksRouter(ctx: ServiceContext): Router {
   const router = Router();
-  const auth = requireAuth(ctx.ds, ctx.tokenSecret);
+  const auth = requireAuth(ctx.ds, ctx.tokenSecret, ctx.now);
   const grower = requireRole('grower');
   const parsePhoto = multer({ storage: multer.memoryStorage(), limits: { fileSize: MAX_PHOTO_BYTES, files: 1, fields: 0, parts: 1 } }).single(PHOTO_FIELD);
   const upload: RequestHandler = (req, res, next) => parsePhoto(req, res, (err?: unknown) => next(err ? uploadError(err) : undefined));

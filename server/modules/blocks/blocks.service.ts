@@ -1,10 +1,11 @@
 import crypto from 'node:crypto';
-import { In, type EntityManager } from 'typeorm';
+import { type EntityManager } from 'typeorm';
 import { AppError } from '../../lib/errors/app-error';
 import { check } from '../../lib/http/validate';
 import { hasRole } from '../../lib/http/auth';
 import { inTransaction } from '../../lib/db/transaction';
-import { sendAll, type MailMessage } from '../../lib/mail/mail-port';
+import { queueMail } from '../../lib/mail/outbox';
+import { blockChangedMails, blockWithdrawnMails } from './blocks.mails';
 import type { ServiceContext } from '../../lib/service-context';
 import { Account } from '../accounts/account.entity';
 import { Bid } from '../bids/bid.entity';
@@ -134,7 +135,7 @@ export async function createBlock(ctx: ServiceContext, owner: Account, body: unk
  */
 export async function updateBlock(ctx: ServiceContext, caller: Account, id: string, patch: unknown): Promise<BlockView> {
   if (patch === null || typeof patch !== 'object' || Array.isArray(patch)) throw AppError.badRequest('The request body must be a JSON object');
-  const outcome = await inTransaction(ctx.ds, async (tx) => {
+  await inTransaction(ctx.ds, async (tx) => {
     const block = await loadBlock(tx, id);
     assertOwnsBlock(caller, block, await blockFacts(tx, caller, block));
     assertEditable(block);
@@ -160,9 +161,9 @@ export async function updateBlock(ctx: ServiceContext, caller: Account, id: stri
       }
     }
     await tx.update(Block, { id: block.id }, next);
-    return { block: { ...block, ...next } as Block, liveBids, changed };
+    if (liveBids.length > 0) await queueMail(tx, await blockChangedMails(tx, ctx.links, { ...block, ...next } as Block, liveBids, changed), ctx.now());
   });
-  if (outcome.liveBids.length > 0) await sendAll(ctx.mail, await blockChangedMails(ctx, outcome.block, outcome.liveBids, outcome.changed), ctx.log);
+  ctx.outbox.kick();
   return viewOne(ctx, caller, id);
 }
 
@@ -183,7 +184,7 @@ export async function publishBlock(ctx: ServiceContext, caller: Account, id: str
 
 /** Draft or open → withdrawn; every live bid is declined and its grazier told. */
 export async function withdrawBlock(ctx: ServiceContext, caller: Account, id: string): Promise<BlockView> {
-  const { block, declined } = await inTransaction(ctx.ds, async (tx) => {
+  await inTransaction(ctx.ds, async (tx) => {
     const block = await loadBlock(tx, id);
     assertOwnsBlock(caller, block, await blockFacts(tx, caller, block));
     if (block.status !== 'draft' && block.status !== 'open') {
@@ -193,9 +194,9 @@ export async function withdrawBlock(ctx: ServiceContext, caller: Account, id: st
     await tx.update(Block, { id: block.id }, { status: 'withdrawn', withdrawnAt: at });
     const declined = await tx.findBy(Bid, { blockId: block.id, status: 'live' });
     if (declined.length > 0) await tx.update(Bid, { blockId: block.id, status: 'live' }, { status: 'declined', decidedAt: at });
-    return { block, declined };
+    await queueMail(tx, await blockWithdrawnMails(tx, ctx.links, block, declined), ctx.now());
   });
-  await sendAll(ctx.mail, await withdrawnMails(ctx, block, declined), ctx.log);
+  ctx.outbox.kick();
   return viewOne(ctx, caller, id);
 }
 
@@ -283,43 +284,4 @@ export async function listBlocks(ctx: ServiceContext, viewer: Account, rawQuery:
   const pageSize = q.pageSize ?? 20;
   const slice = rows.slice((page - 1) * pageSize, page * pageSize).map((r) => r.block);
   return { items: await blockViews(ctx, viewer, slice), total: rows.length, page, pageSize };
-}
-
-// ——— mail ———
-
-async function emailsOf(ctx: ServiceContext, ids: string[]): Promise<Map<string, string>> {
-  if (ids.length === 0) return new Map();
-  const rows = await ctx.ds.manager.find(Account, { where: { id: In(ids) }, select: { id: true, email: true } });
-  return new Map(rows.map((r) => [r.id, r.email]));
-}
-
-async function blockChangedMails(ctx: ServiceContext, block: Block, bids: Bid[], changed: string[]): Promise<MailMessage[]> {
-  const emails = await emailsOf(ctx, [...new Set(bids.map((b) => b.grazierId))]);
-  return bids.flatMap((bid) => {
-    const to = emails.get(bid.grazierId);
-    if (!to) return [];
-    const conflicts = stayConflicts(bid, block);
-    return [
-      {
-        to,
-        subject: `Block changed: ${block.name}`,
-        text:
-          `The grower changed ${block.name}, which you bid on (${bid.startDate} to ${bid.endDate}). Changed: ${changed.join(', ')}.\n\n` +
-          (conflicts.length > 0
-            ? `Your bid no longer fits the block and cannot be awarded until you change it:\n${conflicts.map((c) => `- ${c.message}`).join('\n')}\n\n`
-            : '') +
-          'Open the block in Fieldfold to review your bid.',
-      },
-    ];
-  });
-}
-
-async function withdrawnMails(ctx: ServiceContext, block: Block, declined: Bid[]): Promise<MailMessage[]> {
-  const emails = await emailsOf(ctx, [...new Set(declined.map((b) => b.grazierId))]);
-  return declined.flatMap((bid) => {
-    const to = emails.get(bid.grazierId);
-    return to
-      ? [{ to, subject: `Block withdrawn: ${block.name}`, text: `The grower withdrew ${block.name}. Your bid for ${bid.startDate} to ${bid.endDate} is closed; nothing more is needed from you.` }]
-      : [];
-  });
 }

@@ -6,7 +6,7 @@ import { getContract, listContracts } from './contracts.service';
 
 export function contractsRouter(ctx: ServiceContext): Router {
   const router = Router();
-  const auth = requireAuth(ctx.ds, ctx.tokenSecret);
+  const auth = requireAuth(ctx.ds, ctx.tokenSecret, ctx.now);
 
   router.get('/contracts', auth, async (req, res) => {
     res.json(await listContracts(ctx, signedIn(req)));

@@ -10,6 +10,7 @@ import { Contract } from './contract.entity';
 import { assertParty } from './contracts.policy';
 import { normaliseBid } from '../../../lib/grazing/bid-compare';
 import type { ContractView } from '../../../lib/schemas/contract';
+import { pickTerms } from '../../../lib/terms';
 
 /** The contract an award creates: the bid's terms and the block's figures, copied as they are now. */
 export async function createContract(tx: EntityManager, block: Block, bid: Bid): Promise<Contract> {
@@ -20,16 +21,8 @@ export async function createContract(tx: EntityManager, block: Block, bid: Bid):
     growerId: block.ownerId,
     grazierId: bid.grazierId,
     status: 'to-sign',
-    basis: bid.basis,
-    rate: bid.rate,
-    headCount: bid.headCount,
-    species: bid.species,
-    animalClass: bid.animalClass,
-    bodyWeightLb: bid.bodyWeightLb,
-    startDate: bid.startDate,
-    endDate: bid.endDate,
+    ...pickTerms(bid),
     outBy: block.outBy,
-    services: bid.services,
     acres: block.acres,
     lbDmPerAcre: block.lbDmPerAcre,
     targetUtilizationPct: block.targetUtilizationPct,
@@ -59,16 +52,8 @@ export async function contractViews(em: EntityManager, contracts: Contract[]): P
     block: blockSummary(blockById.get(c.blockId)!),
     grower: party(c.growerId),
     grazier: party(c.grazierId),
-    basis: c.basis,
-    rate: c.rate,
-    headCount: c.headCount,
-    species: c.species,
-    animalClass: c.animalClass,
-    bodyWeightLb: c.bodyWeightLb,
-    startDate: c.startDate,
-    endDate: c.endDate,
+    ...pickTerms(c),
     outBy: c.outBy,
-    services: c.services,
     acres: c.acres,
     lbDmPerAcre: c.lbDmPerAcre,
     targetUtilizationPct: c.targetUtilizationPct,
