@@ -7,6 +7,9 @@ import { calcRouter } from './modules/calc/calc.routes';
 import { blocksRouter } from './modules/blocks/blocks.routes';
 import { bidsRouter } from './modules/bids/bids.routes';
 import { contractsRouter } from './modules/contracts/contracts.routes';
+import { invoicesRouter, paymentsWebhookRouter } from './modules/invoices/invoices.routes';
+import type { InvoicesContext } from './modules/invoices/invoices-context';
+import type { PaymentsPort } from './lib/payments';
 import { errorHandler, notFoundHandler } from './lib/errors/error-handler';
 import type { MailOutbox } from './lib/mail/outbox';
 import { appLinks } from './lib/mail/links';
@@ -28,6 +31,10 @@ export interface AppDeps {
   publicUrl?: string;
   /** Clock in epoch ms, for "today" at a block, sessions and mail; tests fix it. */
   now?: () => number;
+  /** The payments API (server/lib/payments): the SDK adapter on the local fake or the hosted API. */
+  payments: PaymentsPort;
+  /** Where generated documents (invoice PDFs) are kept: DATA_DIR/documents in production. */
+  documentsDir: string;
 }
 
 /** Builds the whole HTTP app; never listens (server/index.ts does), so tests drive it with supertest. */
@@ -64,7 +71,11 @@ export function createApp(deps: AppDeps): Express {
   api.use(blocksRouter(ctx));
   api.use(bidsRouter(ctx));
   api.use(contractsRouter(ctx));
+  const invoices: InvoicesContext = { ...ctx, payments: deps.payments, documentsDir: deps.documentsDir };
+  api.use(invoicesRouter(invoices));
   api.use(notFoundHandler);
+  // Ahead of the API router and its JSON parser: the webhook's signature covers the raw bytes.
+  app.use('/api', paymentsWebhookRouter(invoices));
   app.use('/api', api);
 
   if (deps.webDir && fs.existsSync(path.join(deps.webDir, 'index.html'))) {

@@ -6,6 +6,9 @@ import { seedDemoOnce } from './db/seed/demo';
 import { createApp } from './app';
 import { MemoryMail } from './lib/mail/memory-mail';
 import { OutboxSender } from './lib/mail/outbox';
+import { createPayments } from './lib/payments';
+import { InvoiceRecovery } from './modules/invoices/invoice-sync';
+import { appLinks } from './lib/mail/links';
 
 // config → database (migrations) → demo seed (once) → listen → graceful shutdown.
 async function main() {
@@ -19,6 +22,9 @@ async function main() {
   const mail = new MemoryMail((msg) => console.log(`[mail] ${msg.subject}`), 500);
   const outbox = new OutboxSender(dataSource, mail, Date.now, console.error);
   outbox.start();
+  const payments = createPayments(config.payments);
+  console.log(`[fieldfold] payments: ${config.payments.mode === 'hosted' ? 'the hosted payments API' : `the local fake at ${config.payments.apiUrl}`}`);
+  const documentsDir = path.join(config.dataDir, 'documents');
   const app = createApp({
     dataSource,
     tokens: { secret: config.tokenSecret, ttl: config.tokenTtl },
@@ -27,7 +33,12 @@ async function main() {
     uploadsDir: path.join(config.dataDir, 'uploads'),
     outbox,
     publicUrl: config.publicUrl,
+    payments,
+    documentsDir,
   });
+  // Invoices still being issued (the payments API was down, or the process stopped between two steps) go on.
+  const invoiceRecovery = new InvoiceRecovery({ ds: dataSource, payments, outbox, links: appLinks(config.publicUrl), now: Date.now, log: console.error, documentsDir, tokenSecret: config.tokenSecret });
+  invoiceRecovery.start();
   const server: Server = app.listen(config.port, config.host, () => {
     const addr = server.address();
     const port = typeof addr === 'object' && addr ? addr.port : config.port;
@@ -40,6 +51,7 @@ async function main() {
     closing = true;
     console.log(`[fieldfold] ${signal}: closing`);
     server.close(async () => {
+      await invoiceRecovery.stop();
       await outbox.stop();
       await dataSource.destroy();
       process.exit(0);

@@ -7,6 +7,7 @@ import { openDatabase } from '../../server/db/data-source';
 import { createApp } from '../../server/app';
 import { MemoryMail } from '../../server/lib/mail/memory-mail';
 import { OutboxSender } from '../../server/lib/mail/outbox';
+import { createPayments, type PaymentsPort } from '../../server/lib/payments';
 
 // Long enough that tests may move the app's clock through a season without the session expiring.
 export const TEST_TOKENS = { secret: 'test-secret-that-is-long-enough-to-sign-tokens', ttl: '400d' };
@@ -19,12 +20,15 @@ export interface TestAppOptions {
   log?: (msg: string) => void;
   /** A mail adapter other than the in-memory outbox (e.g. one that fails). */
   mail?: import('../../server/lib/mail/mail-port').MailPort;
+  /** The payments API; by default one that nothing answers (tests that pay start the fake: helpers/payments.ts). */
+  payments?: PaymentsPort;
 }
 
 /** A fresh in-memory SQLite that ran the real migrations, and the real app on top of it. */
 export async function makeTestApp(options: TestAppOptions = {}) {
   const dataSource = await openDatabase(':memory:');
   const uploadsDir = fs.mkdtempSync(path.join(os.tmpdir(), 'fieldfold-uploads-'));
+  const documentsDir = fs.mkdtempSync(path.join(os.tmpdir(), 'fieldfold-documents-'));
   const mail = new MemoryMail();
   const clock = { now: TEST_NOW };
   const now = () => clock.now;
@@ -39,6 +43,8 @@ export async function makeTestApp(options: TestAppOptions = {}) {
     outbox,
     publicUrl: 'http://fieldfold.test',
     now,
+    payments: options.payments ?? createPayments({ mode: 'fake', secretKey: 'sk_test_nothing_answers', apiUrl: 'http://127.0.0.1:9', webhookSecret: 'whsec_unused_in_these_tests', webhookToleranceSeconds: 300 }),
+    documentsDir,
   });
   let n = 0;
   async function signUp(roles: Array<'grower' | 'grazier'>, name = 'Test Person') {
@@ -58,6 +64,7 @@ export async function makeTestApp(options: TestAppOptions = {}) {
     /** Runs the outbox sender until nothing due is left; resolves with how many were sent. */
     deliverMail: () => outbox.drain(),
     uploadsDir,
+    documentsDir,
     /** Moves the app's clock (ISO instant with offset). */
     setNow: (iso: string) => {
       clock.now = Date.parse(iso);
@@ -66,6 +73,7 @@ export async function makeTestApp(options: TestAppOptions = {}) {
       await outbox.stop();
       await (dataSource as DataSource).destroy();
       fs.rmSync(uploadsDir, { recursive: true, force: true });
+      fs.rmSync(documentsDir, { recursive: true, force: true });
     },
   };
 }

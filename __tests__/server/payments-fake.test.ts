@@ -372,7 +372,9 @@ describe('the payments port on the SDK, against the fake', () => {
     const a = await issue();
     const b = await issue();
     expect(b.id).toBe(a.id);
-    expect(a).toMatchObject({ status: 'open', number: 'KRS-0001', totalCents: 239_400, fieldfoldInvoiceId: 'inv-1' });
+    expect(a).toMatchObject({ status: 'open', totalCents: 239_400, fieldfoldInvoiceId: 'inv-1' });
+    expect(a.number).toMatch(/^[A-Z0-9]{8}-0001$/);
+    expect((await stripe.invoices.retrieve(a.id)).metadata).toMatchObject({ fieldfold_invoice_number: 'KRS-0001' });
     expect((await stripe.customers.list()).data).toHaveLength(1);
     expect((await stripe.invoices.list()).data).toHaveLength(1);
     expect((await stripe.invoices.listLineItems(a.id)).data).toHaveLength(2);

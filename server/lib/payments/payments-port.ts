@@ -32,7 +32,10 @@ export interface DraftInvoiceInput {
   customerId: string;
   fieldfoldInvoiceId: string;
   contractId: string;
-  /** Fieldfold's invoice number, shown on the API's copy too. */
+  /**
+   * Fieldfold's invoice number ("WK-0007"), kept in the API copy's metadata and description. Not the API's own
+   * `number`: that must be unique across the whole account, and two graziers' sequences can both have a WK-0007.
+   */
   number: string;
   /** Day the payment is due, 'YYYY-MM-DD'. */
   dueDate: string;

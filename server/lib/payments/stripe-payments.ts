@@ -23,6 +23,7 @@ const META_INVOICE = 'fieldfold_invoice_id';
 const META_CONTRACT = 'fieldfold_contract_id';
 const META_ACCOUNT = 'fieldfold_account_id';
 const META_LINE = 'fieldfold_line';
+const META_NUMBER = 'fieldfold_invoice_number';
 
 export function createStripeClient(config: Pick<PaymentsConfig, 'mode' | 'secretKey' | 'apiUrl'>): Stripe {
   const common = { maxNetworkRetries: 2, timeout: 20_000, appInfo: { name: 'Fieldfold' } };
@@ -64,9 +65,8 @@ export class StripePayments implements PaymentsPort {
           due_date: endOfDayUtc(input.dueDate),
           auto_advance: false,
           pending_invoice_items_behavior: 'exclude',
-          number: input.number,
           description: input.description,
-          metadata: { [META_INVOICE]: input.fieldfoldInvoiceId, [META_CONTRACT]: input.contractId },
+          metadata: { [META_INVOICE]: input.fieldfoldInvoiceId, [META_CONTRACT]: input.contractId, [META_NUMBER]: input.number },
         },
         { idempotencyKey },
       ),

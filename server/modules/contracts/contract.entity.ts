@@ -67,6 +67,11 @@ export class Contract {
   @Column('varchar', { name: 'time_zone', length: 64 })
   timeZone: string;
 
+  // Added for invoices (migration 1765300000001) until the sign-off work lands this column on main: the head-days
+  // both parties agreed at sign-off, which a head-day invoice bills. Null until agreed.
+  @Column('real', { name: 'agreed_head_days', nullable: true })
+  agreedHeadDays: number | null;
+
   @CreateDateColumn({ name: 'created_at', type: 'datetime' })
   createdAt: Date;
 
