@@ -8,7 +8,7 @@ import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import { spawnSync } from 'node:child_process';
-import { buildServer, buildWeb, ensureDependencies, freePort, root, startServer } from './lib.mjs';
+import { buildServer, buildWeb, ensureDependencies, freePort, root, startPaymentsFake, startServer } from './lib.mjs';
 
 const CHROMIUM = '/usr/bin/chromium';
 const artifacts = path.join(root, 'artifacts');
@@ -49,6 +49,7 @@ const add = (name, r) => {
 };
 
 let server;
+let paymentsFake;
 try {
   ensureDependencies();
   ensureChromium();
@@ -57,14 +58,22 @@ try {
   buildWeb();
   buildServer();
   const port = await freePort();
+  const paymentsPort = await freePort();
   const dataDir = fs.mkdtempSync(path.join(os.tmpdir(), 'fieldfold-e2e-'));
-  server = await startServer({ PORT: String(port), HOST: '127.0.0.1', DATA_DIR: dataDir, NODE_ENV: 'test' }, { quiet: true });
-  add('browser suite (chromium)', jest(['--config', 'jest.e2e.config.js', '--runInBand', '--ci'], 'jest-e2e.json', { E2E_BASE_URL: `http://127.0.0.1:${port}` }));
+  // The payments fake and the server share DATA_DIR, and with it the generated webhook signing secret.
+  const env = { PORT: String(port), HOST: '127.0.0.1', DATA_DIR: dataDir, NODE_ENV: 'test', PAYMENTS_FAKE_PORT: String(paymentsPort) };
+  paymentsFake = await startPaymentsFake(env, { quiet: true });
+  server = await startServer(env, { quiet: true });
+  add(
+    'browser suite (chromium)',
+    jest(['--config', 'jest.e2e.config.js', '--runInBand', '--ci'], 'jest-e2e.json', { E2E_BASE_URL: `http://127.0.0.1:${port}`, E2E_DATA_DIR: dataDir, E2E_PAYMENTS_URL: `http://127.0.0.1:${paymentsPort}` }),
+  );
 } catch (err) {
   console.error(`[fieldfold] test run stopped: ${err.message}`);
   totals.failed += 1;
 } finally {
   server?.kill('SIGTERM');
+  paymentsFake?.kill('SIGTERM');
 }
 
 console.log(`${totals.passed} passed, ${totals.failed} failed`);

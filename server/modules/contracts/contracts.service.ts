@@ -60,6 +60,8 @@ export async function contractViews(em: EntityManager, contracts: Contract[]): P
     timeZone: c.timeZone,
     normalised: normaliseBid(c, c),
     createdAt: c.createdAt.toISOString(),
+    // For invoicing: what a head-day invoice will bill (null until sign-off agrees it).
+    agreedHeadDays: c.agreedHeadDays,
   }));
 }
 
