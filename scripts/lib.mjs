@@ -61,37 +61,6 @@ export function buildServer() {
 }
 
 export const serverEntry = path.join(root, 'build', 'server', 'index.js');
-export const paymentsFakeEntry = path.join(root, 'build', 'server', 'fakes', 'payments', 'main.js');
-
-/** The server talks to the local payments fake unless a real key is set and no PAYMENTS_API_URL (server/config/env.ts). */
-export function usesPaymentsFake(env = process.env) {
-  return !(env.PAYMENTS_API_URL || /^sk_(live|test)_/.test(env.PAYMENTS_SECRET_KEY ?? ''));
-}
-
-/** Starts the built payments fake with `env` (PAYMENTS_FAKE_PORT, DATA_DIR, PORT for its webhooks) once it answers. */
-export async function startPaymentsFake(env, { quiet = false } = {}) {
-  const child = spawn(process.execPath, ['--enable-source-maps', paymentsFakeEntry], {
-    cwd: root,
-    env: { ...process.env, ...env },
-    stdio: quiet ? ['ignore', 'pipe', 'pipe'] : 'inherit',
-  });
-  let output = '';
-  child.stdout?.on('data', (d) => (output += d));
-  child.stderr?.on('data', (d) => (output += d));
-  const url = `http://127.0.0.1:${env.PAYMENTS_FAKE_PORT ?? 12111}/_fake/health`;
-  const deadline = Date.now() + 15_000;
-  while (Date.now() < deadline) {
-    if (child.exitCode !== null) throw new Error(`payments fake exited early (${child.exitCode}):\n${output}`);
-    try {
-      if ((await fetch(url)).ok) return child;
-    } catch {
-      // not listening yet
-    }
-    await new Promise((r) => setTimeout(r, 100));
-  }
-  child.kill('SIGTERM');
-  throw new Error(`payments fake did not answer ${url} within 15 s:\n${output}`);
-}
 
 export function freePort() {
   return new Promise((resolve, reject) => {

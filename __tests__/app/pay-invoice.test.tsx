@@ -35,7 +35,7 @@ const sent: InvoiceView = {
   totalCents: 194_400,
   payment: { ready: true, inProgress: false, lastFailure: null },
   receipt: null,
-  pdf: { url: '/api/invoices/inv-1/pdf?access=t', sha256: 'a'.repeat(64) },
+  pdf: { url: '/api/invoices/inv-1/pdf?access=t', sha256: 'a'.repeat(64), version: 1 },
   createdAt: '2027-02-01T17:00:00.000Z',
 };
 

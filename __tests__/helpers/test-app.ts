@@ -4,7 +4,7 @@ import path from 'node:path';
 import request from 'supertest';
 import type { DataSource } from 'typeorm';
 import { openDatabase } from '../../server/db/data-source';
-import { createApp } from '../../server/app';
+import { createApp, serviceContext, type AppDeps } from '../../server/app';
 import { MemoryMail } from '../../server/lib/mail/memory-mail';
 import { OutboxSender } from '../../server/lib/mail/outbox';
 import { createPayments, type PaymentsPort } from '../../server/lib/payments';
@@ -20,7 +20,7 @@ export interface TestAppOptions {
   log?: (msg: string) => void;
   /** A mail adapter other than the in-memory outbox (e.g. one that fails). */
   mail?: import('../../server/lib/mail/mail-port').MailPort;
-  /** The payments API; by default one that nothing answers (tests that pay start the fake: helpers/payments.ts). */
+  /** The payments API; by default one that nothing answers (tests that pay use helpers/invoicing.ts, with the fake). */
   payments?: PaymentsPort;
 }
 
@@ -35,17 +35,18 @@ export async function makeTestApp(options: TestAppOptions = {}) {
   const log = options.log ?? (() => {});
   // The real outbox on the test database; tests call deliverMail() to run the sender to the end.
   const outbox = new OutboxSender(dataSource, options.mail ?? mail, now, log);
-  const app = createApp({
+  const deps: AppDeps = {
     dataSource,
     tokens: TEST_TOKENS,
     log,
     uploadsDir,
+    documentsDir,
     outbox,
     publicUrl: 'http://fieldfold.test',
     now,
     payments: options.payments ?? createPayments({ mode: 'fake', secretKey: 'sk_test_nothing_answers', apiUrl: 'http://127.0.0.1:9', webhookSecret: 'whsec_unused_in_these_tests', webhookToleranceSeconds: 300 }),
-    documentsDir,
-  });
+  };
+  const app = createApp(deps);
   let n = 0;
   async function signUp(roles: Array<'grower' | 'grazier'>, name = 'Test Person') {
     n += 1;
@@ -61,6 +62,8 @@ export async function makeTestApp(options: TestAppOptions = {}) {
     /** Everything the app mailed, oldest first (after deliverMail()). */
     mail,
     outbox,
+    /** The same ports the app's services get, for tests that call a service directly. */
+    ctx: serviceContext(deps),
     /** Runs the outbox sender until nothing due is left; resolves with how many were sent. */
     deliverMail: () => outbox.drain(),
     uploadsDir,

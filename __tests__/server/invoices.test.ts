@@ -9,11 +9,13 @@ import { chargeLines } from '../../lib/money';
 import { Contract } from '../../server/modules/contracts/contract.entity';
 import { Invoice } from '../../server/modules/invoices/invoice.entity';
 import { resumePendingInvoices } from '../../server/modules/invoices/invoice-sync';
-import type { InvoiceWorkContext } from '../../server/modules/invoices/invoices-context';
 import { TEST_NOW } from '../helpers/test-app';
 
 // Invoices and paying online, through the API: supertest on createApp, a fresh migrated SQLite, and the payments
 // fake in-process behind the real SDK adapter.
+
+// Each test signs several people up (bcrypt) and drives the payments fake: more than jest's 5 s on a busy machine.
+jest.setTimeout(30_000);
 
 type App = Awaited<ReturnType<typeof makeInvoicingApp>>;
 let t: App;
@@ -27,20 +29,6 @@ async function invoiced(app: App, opts: Parameters<App['agreedContract']>[0] = {
   const res = await app.api().post(`/api/contracts/${c.contractId}/invoice`).set(c.grazier.auth).send({});
   if (res.status !== 201) throw new Error(`invoice failed: ${res.status} ${JSON.stringify(res.body)}`);
   return { ...c, invoice: res.body.invoice };
-}
-
-/** The context the background work uses, for driving recovery by hand. */
-function workContext(app: App): InvoiceWorkContext {
-  return {
-    ds: app.dataSource,
-    payments: app.payments,
-    outbox: app.outbox,
-    links: { invoice: (id: string) => `http://fieldfold.test/invoices/${id}` } as InvoiceWorkContext['links'],
-    now: () => TEST_NOW,
-    log: () => {},
-    documentsDir: app.documentsDir,
-    tokenSecret: 'test-secret-that-is-long-enough-to-sign-tokens',
-  };
 }
 
 describe('POST /api/contracts/:id/invoice', () => {
@@ -330,8 +318,8 @@ describe('recovery: the payments API down, or a crash between steps', () => {
     expect(retried).toMatchObject({ syncAttempts: 2, syncNextAt: TEST_NOW + 60_000 });
     // Back up: the recovery run after the backoff sends it; a second run has nothing to do.
     t.payments.faults = {};
-    expect(await resumePendingInvoices({ ...workContext(t), now: () => TEST_NOW + 30_000 })).toBe(0);
-    const ctx = { ...workContext(t), now: () => TEST_NOW + 61_000 };
+    expect(await resumePendingInvoices({ ...t.ctx, now: () => TEST_NOW + 30_000 })).toBe(0);
+    const ctx = { ...t.ctx, now: () => TEST_NOW + 61_000 };
     expect(await resumePendingInvoices(ctx)).toBe(1);
     expect(await resumePendingInvoices(ctx)).toBe(0);
     expect((await t.dataSource.getRepository(Invoice).findOneByOrFail({ id: row.id })).status).toBe('sent');
@@ -346,7 +334,7 @@ describe('recovery: the payments API down, or a crash between steps', () => {
     const created = await t.api().post(`/api/contracts/${c.contractId}/invoice`).set(c.grazier.auth).send({});
     t.payments.faults = {};
     expect(created.body.invoice.status).toBe('draft');
-    const ctx = { ...workContext(t), now: () => TEST_NOW + 60_000 };
+    const ctx = { ...t.ctx, now: () => TEST_NOW + 60_000 };
     await resumePendingInvoices(ctx);
     const row = await t.dataSource.getRepository(Invoice).findOneByOrFail({ id: created.body.invoice.id });
     expect(row.status).toBe('sent');
@@ -356,6 +344,26 @@ describe('recovery: the payments API down, or a crash between steps', () => {
     expect(all.data[0].lines.data).toHaveLength(1);
   });
 });
+
+function download(url: string, auth: Record<string, string>) {
+  return t
+    .api()
+    .get(url)
+    .set(auth)
+    .buffer(true)
+    .parse((res, cb) => {
+      const chunks: Buffer[] = [];
+      res.on('data', (c: Buffer) => chunks.push(c));
+      res.on('end', () => cb(null, Buffer.concat(chunks)));
+    });
+}
+
+/** The PDF's text as pdftotext (poppler) reads it, keeping the layout. */
+function pdfText(bytes: Buffer): string {
+  const file = path.join(fs.mkdtempSync(path.join(os.tmpdir(), 'invoice-pdf-')), 'invoice.pdf');
+  fs.writeFileSync(file, bytes);
+  return execFileSync('pdftotext', ['-layout', file, '-'], { encoding: 'utf8' });
+}
 
 describe('GET /api/invoices and the PDF', () => {
   beforeEach(async () => {
@@ -399,24 +407,19 @@ describe('GET /api/invoices and the PDF', () => {
   test('When either party downloads the PDF, then it is the stored file with its SHA-256 and its text holds the lines and the total; others get 404', async () => {
     const { invoice, grower, grazier } = await invoiced(t, { headDays: 10_800 });
     expect(invoice.pdf.sha256).toMatch(/^[0-9a-f]{64}$/);
-    const byGrazier = await t.api().get(`/api/invoices/${invoice.id}/pdf`).set(grazier.auth).buffer(true).parse((res, cb) => {
-      const chunks: Buffer[] = [];
-      res.on('data', (c: Buffer) => chunks.push(c));
-      res.on('end', () => cb(null, Buffer.concat(chunks)));
-    });
+    const byGrazier = await download(`/api/invoices/${invoice.id}/pdf`, grazier.auth);
     expect(byGrazier.status).toBe(200);
     expect(byGrazier.headers['content-type']).toBe('application/pdf');
-    expect(byGrazier.headers['content-disposition']).toBe('attachment; filename="invoice-WG-0001.pdf"');
+    expect(byGrazier.headers['content-disposition']).toBe(`attachment; filename="fieldfold-invoice-${invoice.id.slice(0, 8)}-v1.pdf"`);
+    expect(byGrazier.headers.etag).toBe(`"${invoice.pdf.sha256}"`);
     const bytes = byGrazier.body as Buffer;
     expect(crypto.createHash('sha256').update(bytes).digest('hex')).toBe(invoice.pdf.sha256);
 
-    const file = path.join(fs.mkdtempSync(path.join(os.tmpdir(), 'invoice-pdf-')), 'invoice.pdf');
-    fs.writeFileSync(file, bytes);
-    const text = execFileSync('pdftotext', ['-layout', file, '-'], { encoding: 'utf8' });
+    const text = pdfText(bytes);
     expect(text).toContain('Invoice WG-0001');
-    expect(text).toContain('Grazing: 10,800 head-days × $0.18 per head-day');
-    expect(text).toContain('$1,944.00');
-    expect(text).toMatch(/Total due \(USD\)\s+\$1,944\.00/);
+    expect(text).toMatch(/Grazing \(head-days\)\s+10,800 head-days\s+\$0\.18\s+\$1,944\.00/);
+    expect(text).toMatch(/Total due\s+\$1,944\.00/);
+    expect(text).toContain('SENT · DUE DEC 15, 2026');
 
     // The grower's link from the view carries its own token (a download sends no header).
     const growerView = await t.api().get(`/api/invoices/${invoice.id}`).set(grower.auth);
@@ -426,5 +429,14 @@ describe('GET /api/invoices and the PDF', () => {
     const stranger = await t.grower('Not A Party');
     expect((await t.api().get(`/api/invoices/${invoice.id}/pdf`).set(stranger.auth)).status).toBe(404);
     expect((await t.api().get(`/api/invoices/${invoice.id}/pdf?access=forged`)).status).toBe(401);
+
+    // Paid: a second version, stamped paid, is what both now download.
+    await t.api().post(`/api/invoices/${invoice.id}/pay`).set(grower.auth).send({ paymentMethod: 'pm_card_visa' });
+    const paidView = (await t.api().get(`/api/invoices/${invoice.id}`).set(grazier.auth)).body.invoice;
+    expect(paidView.pdf.version).toBe(2);
+    const paidPdf = await download(`/api/invoices/${invoice.id}/pdf`, grower.auth);
+    expect(paidPdf.headers['content-disposition']).toBe(`attachment; filename="fieldfold-invoice-${invoice.id.slice(0, 8)}-v2.pdf"`);
+    expect(crypto.createHash('sha256').update(paidPdf.body as Buffer).digest('hex')).toBe(paidView.pdf.sha256);
+    expect(pdfText(paidPdf.body as Buffer)).toMatch(/Total \(paid\)\s+\$1,944\.00/);
   });
 });

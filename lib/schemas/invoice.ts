@@ -137,8 +137,11 @@ export interface InvoiceView {
     lastFailure: PaymentFailureView | null;
   };
   receipt: ReceiptView | null;
-  /** The invoice PDF: a link that carries its own short-lived access token (a download cannot send a header). */
-  pdf: { url: string; sha256: string | null };
+  /**
+   * The invoice PDF: a link that carries its own short-lived access token (a download cannot send a header), and
+   * the SHA-256 and version of the newest stored file (a new version is stored when the invoice is paid).
+   */
+  pdf: { url: string; sha256: string | null; version: number | null };
   createdAt: string;
 }
 

@@ -6,22 +6,25 @@ import { BlockPhoto } from '../modules/blocks/block-photo.entity';
 import { Bid } from '../modules/bids/bid.entity';
 import { Contract } from '../modules/contracts/contract.entity';
 import { OutboxMessage } from '../lib/mail/outbox.entity';
+import { Document } from '../modules/documents/document.entity';
 import { Invoice, InvoiceCounter, PaymentCustomer, PaymentEventRecord } from '../modules/invoices/invoice.entity';
 import { Accounts1764600000000 } from './migrations/1764600000000-accounts';
 import { Blocks1764700000000 } from './migrations/1764700000000-blocks';
 import { Bids1764700100000 } from './migrations/1764700100000-bids';
 import { Contracts1764700200000 } from './migrations/1764700200000-contracts';
 import { MailOutbox1765000000000 } from './migrations/1765000000000-mail-outbox';
+import { Documents1765200000000 } from './migrations/1765200000000-documents';
 import { Invoices1765300000000 } from './migrations/1765300000000-invoices';
 import { ContractAgreedHeadDays1765300000001 } from './migrations/1765300000001-contract-agreed-head-days';
 
-export const entities = [Account, Session, Block, BlockPhoto, Bid, Contract, OutboxMessage, Invoice, InvoiceCounter, PaymentEventRecord, PaymentCustomer];
+export const entities = [Account, Session, Block, BlockPhoto, Bid, Contract, OutboxMessage, Document, Invoice, InvoiceCounter, PaymentEventRecord, PaymentCustomer];
 export const migrations = [
   Accounts1764600000000,
   Blocks1764700000000,
   Bids1764700100000,
   Contracts1764700200000,
   MailOutbox1765000000000,
+  Documents1765200000000,
   Invoices1765300000000,
   ContractAgreedHeadDays1765300000001,
 ];

@@ -1,7 +1,7 @@
 import type { MigrationInterface, QueryRunner } from 'typeorm';
 
 // Invoices (one per contract), each grazier's number counter, the payments API's events (each stored once) and
-// growers' customer records in that API. The unique keys carry the promises: one invoice per contract, no two
+// growers' customer records in that API. Their PDFs are rows of the documents table (kind 'invoice'). The unique keys carry the promises: one invoice per contract, no two
 // invoices of a grazier with one number, one row per API event and per API invoice.
 export class Invoices1765300000000 implements MigrationInterface {
   name = 'Invoices1765300000000';
@@ -43,8 +43,7 @@ export class Invoices1765300000000 implements MigrationInterface {
       "paid_day" varchar(10),
       "paid_with" varchar(64),
       "voided_at" bigint,
-      "pdf_file" varchar(255),
-      "pdf_sha256" varchar(64),
+      "pdf_shows" varchar(8),
       "created_at" bigint NOT NULL,
       "updated_at" bigint NOT NULL
     )`);

@@ -1,20 +1,20 @@
-import crypto from 'node:crypto';
-import fs from 'node:fs';
-import path from 'node:path';
 import { IsNull, LessThanOrEqual, type EntityManager } from 'typeorm';
 import { inTransaction } from '../../lib/db/transaction';
 import { queueMail } from '../../lib/mail/outbox';
 import { PaymentsUnavailableError, type ProviderInvoice } from '../../lib/payments';
 import { customerKey } from '../../lib/payments/stripe-payments';
-import { renderInvoicePdf } from '../../lib/pdf/invoice-pdf';
+import { invoiceLinesFromCharge, type InvoicePdfData } from '../../lib/pdf/pdf-renderer';
+import { latestDocument, storeRenderedDocument, type Document } from '../documents/documents.service';
 import { Account } from '../accounts/account.entity';
 import { Contract } from '../contracts/contract.entity';
 import { Invoice, PaymentCustomer } from './invoice.entity';
-import type { InvoiceWorkContext } from './invoices-context';
+import type { ServiceContext } from '../../lib/service-context';
 import { invoiceViews } from './invoice-views';
 import { invoiceSentMail, receiptMails } from './invoices.mails';
 import { todayIn } from '../../../lib/day-keys';
 import { invoiceNumberLabel } from '../../../lib/invoices';
+import { formatDay } from '../../../lib/format';
+import { paymentTermsLabel } from '../../../lib/schemas/invoice';
 
 // Creating an invoice in the payments API, step by step, never inside a write transaction: the invoice row was
 // committed first; each API call runs on its own, and each id it returns is recorded in a short transaction of
@@ -31,7 +31,7 @@ export function invoiceKeyBase(inv: Pick<Invoice, 'contractId'>): string {
   return `fieldfold:invoice:${inv.contractId}`;
 }
 
-export async function viewForMail(em: EntityManager, ctx: InvoiceWorkContext, inv: Invoice) {
+export async function viewForMail(em: EntityManager, ctx: ServiceContext, inv: Invoice) {
   const [view] = await invoiceViews(em, ctx, inv.grazierId, [inv]);
   const people = await em.findBy(Account, [{ id: inv.growerId }, { id: inv.grazierId }]);
   const person = (id: string) => {
@@ -42,7 +42,7 @@ export async function viewForMail(em: EntityManager, ctx: InvoiceWorkContext, in
 }
 
 /** draft → sent, once (the conditional UPDATE decides), with the grower's mail in the same transaction. */
-export async function markSent(tx: EntityManager, ctx: InvoiceWorkContext, invoiceId: string, provider: ProviderInvoice): Promise<boolean> {
+export async function markSent(tx: EntityManager, ctx: ServiceContext, invoiceId: string, provider: ProviderInvoice): Promise<boolean> {
   const res = await tx
     .createQueryBuilder()
     .update(Invoice)
@@ -63,7 +63,7 @@ export async function markSent(tx: EntityManager, ctx: InvoiceWorkContext, invoi
  */
 export async function markPaid(
   tx: EntityManager,
-  ctx: InvoiceWorkContext,
+  ctx: ServiceContext,
   invoiceId: string,
   p: { paidAt: number; paidWith: string | null; provider: ProviderInvoice | null },
 ): Promise<boolean> {
@@ -98,7 +98,7 @@ export async function markPaid(
   return true;
 }
 
-async function recordFailure(ctx: InvoiceWorkContext, inv: Invoice, err: unknown): Promise<void> {
+async function recordFailure(ctx: ServiceContext, inv: Invoice, err: unknown): Promise<void> {
   const reason = (err instanceof Error ? err.message : String(err)).replace(/\s+/g, ' ').slice(0, 480);
   const attempts = inv.syncAttempts + 1;
   const delay = SYNC_BACKOFF_MS[Math.min(attempts - 1, SYNC_BACKOFF_MS.length - 1)];
@@ -106,7 +106,7 @@ async function recordFailure(ctx: InvoiceWorkContext, inv: Invoice, err: unknown
   if (!(err instanceof PaymentsUnavailableError)) ctx.log(`[invoices] could not create invoice ${inv.id} in the payments API: ${reason}`);
 }
 
-async function customerFor(ctx: InvoiceWorkContext, inv: Invoice): Promise<string> {
+async function customerFor(ctx: ServiceContext, inv: Invoice): Promise<string> {
   if (inv.providerCustomerId) return inv.providerCustomerId;
   const known = await ctx.ds.manager.findOneBy(PaymentCustomer, { accountId: inv.growerId });
   let customerId = known?.providerCustomerId;
@@ -129,7 +129,7 @@ async function customerFor(ctx: InvoiceWorkContext, inv: Invoice): Promise<strin
  * Safe to call any number of times, from any process: each step is idempotent and skipped once recorded.
  * Resolves to the invoice as stored afterwards; failures are recorded on the invoice, not thrown.
  */
-export async function syncInvoice(ctx: InvoiceWorkContext, invoiceId: string): Promise<Invoice | null> {
+export async function syncInvoice(ctx: ServiceContext, invoiceId: string): Promise<Invoice | null> {
   let inv = await ctx.ds.manager.findOneBy(Invoice, { id: invoiceId });
   if (!inv) return null;
   try {
@@ -177,6 +177,7 @@ export async function syncInvoice(ctx: InvoiceWorkContext, invoiceId: string): P
       else if (provider.status === 'void') await tx.update(Invoice, { id: inv!.id, status: 'draft' }, { status: 'void', voidedAt: ctx.now(), updatedAt: ctx.now() });
     });
     ctx.outbox.kick();
+    await refreshInvoicePdf(ctx, inv.id);
     inv = await ctx.ds.manager.findOneByOrFail(Invoice, { id: inv.id });
     // A void that landed while this ran: the API's copy must not stay payable.
     if (inv.status === 'void') await voidAtProvider(ctx, inv);
@@ -187,7 +188,7 @@ export async function syncInvoice(ctx: InvoiceWorkContext, invoiceId: string): P
   }
 }
 
-async function voidAtProvider(ctx: InvoiceWorkContext, inv: Invoice): Promise<void> {
+async function voidAtProvider(ctx: ServiceContext, inv: Invoice): Promise<void> {
   if (!inv.providerInvoiceId) return;
   const provider = await ctx.payments.retrieve(inv.providerInvoiceId);
   // A draft in the API can never be paid; only an open one must be voided there too.
@@ -197,7 +198,7 @@ async function voidAtProvider(ctx: InvoiceWorkContext, inv: Invoice): Promise<vo
 }
 
 /** Invoices still being issued whose next attempt is due; run at boot and on a timer (server/index.ts). */
-export async function resumePendingInvoices(ctx: InvoiceWorkContext): Promise<number> {
+export async function resumePendingInvoices(ctx: ServiceContext): Promise<number> {
   const due = await ctx.ds.manager.find(Invoice, {
     where: [
       { status: 'draft', syncNextAt: IsNull() },
@@ -215,7 +216,7 @@ export class InvoiceRecovery {
   private timer: NodeJS.Timeout | null = null;
   private running: Promise<unknown> | null = null;
 
-  constructor(private readonly ctx: InvoiceWorkContext) {}
+  constructor(private readonly ctx: ServiceContext) {}
 
   start(intervalMs = 15_000): void {
     if (this.timer) return;
@@ -242,26 +243,62 @@ export class InvoiceRecovery {
 
 // ——— the PDF ———
 
-export function pdfPathOf(ctx: Pick<InvoiceWorkContext, 'documentsDir'>, fileName: string): string {
-  return path.join(ctx.documentsDir, 'invoices', fileName);
+/** The PDF renderer's data for an invoice as it stands (sent or paid), from lib's lines and the stored figures. */
+async function pdfData(ctx: ServiceContext, inv: Invoice, version: number): Promise<InvoicePdfData> {
+  const [view] = await invoiceViews(ctx.ds.manager, ctx, inv.grazierId, [inv]);
+  const contract = await ctx.ds.manager.findOneByOrFail(Contract, { id: inv.contractId });
+  const people = await ctx.ds.manager.findBy(Account, [{ id: inv.growerId }, { id: inv.grazierId }]);
+  const party = (id: string) => {
+    const p = people.find((x) => x.id === id)!;
+    return { name: p.name, businessName: p.businessName, email: p.email, place: p.homePlace ?? null };
+  };
+  return {
+    invoiceId: inv.id,
+    number: view.numberLabel,
+    version,
+    generatedAt: new Date(ctx.now()).toISOString(),
+    timeZone: contract.timeZone,
+    issuedOn: inv.issueDate,
+    dueOn: inv.dueDate,
+    from: party(inv.grazierId),
+    to: party(inv.growerId),
+    contractId: inv.contractId,
+    block: { name: view.block.name, placeName: view.block.placeName },
+    stay: { startDate: contract.startDate, endDate: contract.endDate },
+    lines: invoiceLinesFromCharge({ lines: inv.lines, subtotalCents: inv.subtotalCents, totalCents: inv.totalCents }, inv.basis),
+    subtotalCents: inv.subtotalCents,
+    totalCents: inv.totalCents,
+    status: inv.status === 'paid' ? 'paid' : 'sent',
+    paidAt: inv.paidAt === null ? null : new Date(inv.paidAt).toISOString(),
+    paymentTerms: `${paymentTermsLabel(inv.paymentTermsDays)} of the issue date (${formatDay(inv.issueDate)}): by ${formatDay(inv.dueDate)}.`,
+  };
 }
 
 /**
- * Renders the invoice PDF once, after the invoice is committed (never inside a transaction), stores it under
- * DATA_DIR/documents/invoices and records its SHA-256. Resolves to the file's path.
+ * Renders and stores the invoice PDF as a new document version when the newest one does not show the invoice's
+ * status yet: once when it is sent, once more when it is paid. Called after those transitions commit (rendering
+ * is a side effect); a failure is logged and retried on the next call (the download renders on demand too).
  */
-export async function ensureInvoicePdf(ctx: InvoiceWorkContext, invoiceId: string): Promise<string> {
-  const inv = await ctx.ds.manager.findOneByOrFail(Invoice, { id: invoiceId });
-  if (inv.pdfFile && fs.existsSync(pdfPathOf(ctx, inv.pdfFile))) return pdfPathOf(ctx, inv.pdfFile);
-  const [view] = await invoiceViews(ctx.ds.manager, ctx, inv.grazierId, [inv]);
-  const bytes = await renderInvoicePdf({ invoice: view, payUrl: ctx.links.invoice(inv.id) });
-  const sha256 = crypto.createHash('sha256').update(bytes).digest('hex');
-  const fileName = `${inv.id}.pdf`;
-  const file = pdfPathOf(ctx, fileName);
-  fs.mkdirSync(path.dirname(file), { recursive: true });
-  const tmp = `${file}.${process.pid}.tmp`;
-  fs.writeFileSync(tmp, bytes);
-  fs.renameSync(tmp, file);
-  await inTransaction(ctx.ds, (tx) => tx.update(Invoice, { id: inv.id }, { pdfFile: fileName, pdfSha256: sha256, updatedAt: ctx.now() }));
-  return file;
+export async function ensureInvoicePdf(ctx: ServiceContext, invoiceId: string): Promise<Document | null> {
+  const inv = await ctx.ds.manager.findOneBy(Invoice, { id: invoiceId });
+  if (!inv || (inv.status !== 'sent' && inv.status !== 'paid')) return null;
+  const latest = await latestDocument(ctx, { kind: 'invoice', contractId: inv.contractId, invoiceId: inv.id });
+  if (latest && inv.pdfShows === inv.status) return latest;
+  const doc = await storeRenderedDocument(ctx, {
+    kind: 'invoice',
+    contractId: inv.contractId,
+    invoiceId: inv.id,
+    render: async (version) => ctx.pdf.renderInvoice(await pdfData(ctx, inv, version)),
+  });
+  await inTransaction(ctx.ds, (tx) => tx.update(Invoice, { id: inv.id, status: inv.status }, { pdfShows: inv.status as 'sent' | 'paid', updatedAt: ctx.now() }));
+  return doc;
+}
+
+/** ensureInvoicePdf for after-commit use: never fails the request that changed the invoice. */
+export async function refreshInvoicePdf(ctx: ServiceContext, invoiceId: string): Promise<void> {
+  try {
+    await ensureInvoicePdf(ctx, invoiceId);
+  } catch (err) {
+    ctx.log(`[invoices] PDF for ${invoiceId} not stored yet: ${err instanceof Error ? err.message : String(err)}`);
+  }
 }

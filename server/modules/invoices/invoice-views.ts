@@ -3,6 +3,7 @@ import { Account } from '../accounts/account.entity';
 import { Block } from '../blocks/block.entity';
 import { blockSummary, partyOf } from '../blocks/block-views';
 import { Contract } from '../contracts/contract.entity';
+import { Document } from '../documents/document.entity';
 import type { Invoice } from './invoice.entity';
 import { invoicePdfUrl, signInvoicePdfAccess } from './pdf-access';
 import { displayStatus, invoiceNumberLabel } from '../../../lib/invoices';
@@ -32,6 +33,10 @@ export async function invoiceViews(em: EntityManager, ctx: ViewContext, viewerId
     em.findBy(Account, { id: In([...new Set(invoices.flatMap((i) => [i.growerId, i.grazierId]))]) }),
   ]);
   const blockById = new Map(blocks.map((b) => [b.id, b]));
+  // The newest stored PDF of each (documents keep every version; the view names the latest).
+  const docs = await em.find(Document, { where: { kind: 'invoice', invoiceId: In(invoices.map((i) => i.id)) }, order: { version: 'DESC' } });
+  const pdfOf = new Map<string, Document>();
+  for (const d of docs) if (d.invoiceId && !pdfOf.has(d.invoiceId)) pdfOf.set(d.invoiceId, d);
   const personById = new Map(people.map((p) => [p.id, p]));
   const party = (id: string) => {
     const p = personById.get(id);
@@ -85,7 +90,11 @@ export async function invoiceViews(em: EntityManager, ctx: ViewContext, viewerId
               reference: inv.providerNumber ?? inv.providerInvoiceId,
             }
           : null,
-      pdf: { url: invoicePdfUrl(inv.id, signInvoicePdfAccess(ctx.tokenSecret, inv.id, viewerId)), sha256: inv.pdfSha256 },
+      pdf: {
+        url: invoicePdfUrl(inv.id, signInvoicePdfAccess(ctx.tokenSecret, inv.id, viewerId)),
+        sha256: pdfOf.get(inv.id)?.sha256 ?? null,
+        version: pdfOf.get(inv.id)?.version ?? null,
+      },
       createdAt: new Date(inv.createdAt).toISOString(),
     };
   });

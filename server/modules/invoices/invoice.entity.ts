@@ -123,12 +123,12 @@ export class Invoice {
   @Column('bigint', { name: 'voided_at', nullable: true, transformer: msOrNull })
   voidedAt: number | null;
 
-  /** The invoice PDF under DATA_DIR, and the SHA-256 of its bytes. */
-  @Column('varchar', { name: 'pdf_file', length: 255, nullable: true })
-  pdfFile: string | null;
-
-  @Column('varchar', { name: 'pdf_sha256', length: 64, nullable: true })
-  pdfSha256: string | null;
+  /**
+   * The status the newest stored PDF (modules/documents, one version per rendering) shows: 'sent', then 'paid'.
+   * A PDF is rendered after each of those transitions commits, never inside them.
+   */
+  @Column('varchar', { name: 'pdf_shows', length: 8, nullable: true })
+  pdfShows: 'sent' | 'paid' | null;
 
   @Column('bigint', { name: 'created_at', transformer: ms })
   createdAt: number;

@@ -3,12 +3,13 @@ import { AppError } from '../../lib/errors/app-error';
 import { requireAuth, requireRole, signedIn } from '../../lib/http/auth';
 import { param } from '../../lib/http/params';
 import { WebhookVerificationError } from '../../lib/payments';
-import type { InvoicesContext } from './invoices-context';
+import type { ServiceContext } from '../../lib/service-context';
 import { createInvoice, getInvoice, invoicePdf, listInvoices, payInvoice, voidInvoice } from './invoices.service';
 import { applyPaymentEvent } from './payment-events';
 import { verifyInvoicePdfAccess } from './pdf-access';
+import { sendDocument } from '../documents/documents.download';
 
-export function invoicesRouter(ctx: InvoicesContext): Router {
+export function invoicesRouter(ctx: ServiceContext): Router {
   const router = Router();
   const auth = requireAuth(ctx.ds, ctx.tokenSecret, ctx.now);
   const grazier = requireRole('grazier');
@@ -43,15 +44,10 @@ export function invoicesRouter(ctx: InvoicesContext): Router {
     res.locals.viewerId = viewerId;
     next();
   };
-  router.get('/invoices/:id/pdf', pdfViewer, async (req, res, next) => {
-    const file = await invoicePdf(ctx, res.locals.viewerId as string, param(req, 'id'));
-    res.set({ 'Cache-Control': 'private, no-store', 'X-Content-Type-Options': 'nosniff', 'Content-Disposition': `attachment; filename="${file.fileName}"` });
-    res.type('application/pdf');
-    res.sendFile(file.path, (err?: NodeJS.ErrnoException) => {
-      if (!err) return;
-      if (err.code === 'ENOENT') return next(AppError.notFound('Invoice PDF'));
-      if (!res.headersSent) next(err);
-    });
+  router.get('/invoices/:id/pdf', pdfViewer, async (req, res) => {
+    // The invoices policy first (404 to anyone but the two parties), then the documents module sends the file.
+    const doc = await invoicePdf(ctx, res.locals.viewerId as string, param(req, 'id'));
+    await sendDocument(ctx, req, res, doc);
   });
 
   router.post('/invoices/:id/pay', auth, grower, async (req, res) => {
@@ -70,7 +66,7 @@ export function invoicesRouter(ctx: InvoicesContext): Router {
  * (express.raw keeps them; a parsed-and-reserialised body would not verify). Answers 400 for a bad signature or a
  * timestamp outside the tolerance, changing nothing; 200 once the event is stored (applied, or seen before).
  */
-export function paymentsWebhookRouter(ctx: InvoicesContext): Router {
+export function paymentsWebhookRouter(ctx: ServiceContext): Router {
   const router = Router();
   router.post('/webhooks/payments', express.raw({ type: () => true, limit: '512kb' }), async (req, res) => {
     const raw = Buffer.isBuffer(req.body) ? req.body : Buffer.alloc(0);

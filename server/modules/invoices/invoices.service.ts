@@ -8,10 +8,11 @@ import { PaymentsUnavailableError, type PaymentOutcome } from '../../lib/payment
 import { Account } from '../accounts/account.entity';
 import { Contract } from '../contracts/contract.entity';
 import { Invoice, InvoiceCounter } from './invoice.entity';
-import type { InvoicesContext } from './invoices-context';
+import type { ServiceContext } from '../../lib/service-context';
 import { assertInvoiceParty, assertIssuer, assertMayInvoice, assertPayer } from './invoices.policy';
 import { invoiceViews } from './invoice-views';
-import { ensureInvoicePdf, markPaid, syncInvoice } from './invoice-sync';
+import { ensureInvoicePdf, markPaid, refreshInvoicePdf, syncInvoice } from './invoice-sync';
+import type { Document } from '../documents/documents.service';
 import { addDays, todayIn } from '../../../lib/day-keys';
 import { invoiceCharge, invoiceNumberLabel, invoicePrefix, invoiceTotals, seasonOf } from '../../../lib/invoices';
 import { paymentFailureInWords } from '../../../lib/payments';
@@ -29,7 +30,7 @@ import {
 /** How long one payment attempt owns an invoice: longer than the SDK's timeout with its retries. */
 export const PAY_LEASE_MS = 90_000;
 
-async function viewOf(ctx: InvoicesContext, viewer: Account, inv: Invoice, em: EntityManager = ctx.ds.manager): Promise<InvoiceView> {
+async function viewOf(ctx: ServiceContext, viewer: Account, inv: Invoice, em: EntityManager = ctx.ds.manager): Promise<InvoiceView> {
   const [view] = await invoiceViews(em, ctx, viewer.id, [inv]);
   return view;
 }
@@ -40,7 +41,7 @@ async function viewOf(ctx: InvoicesContext, viewer: Account, inv: Invoice, em: E
  * (grazier, number) index behind it), the lines are computed by lib/ and the invoice row is written. After the
  * commit the invoice is created in the payments API and its PDF rendered; neither runs inside the transaction.
  */
-export async function createInvoice(ctx: InvoicesContext, viewer: Account, contractId: string, body: unknown): Promise<InvoiceView> {
+export async function createInvoice(ctx: ServiceContext, viewer: Account, contractId: string, body: unknown): Promise<InvoiceView> {
   const input = await check(createInvoiceSchema, body ?? {});
   const terms = input.paymentTermsDays ?? DEFAULT_PAYMENT_TERMS_DAYS;
   const invoiceId = await inTransaction(ctx.ds, async (tx) => {
@@ -97,8 +98,7 @@ export async function createInvoice(ctx: InvoicesContext, viewer: Account, contr
       paidDay: null,
       paidWith: null,
       voidedAt: null,
-      pdfFile: null,
-      pdfSha256: null,
+      pdfShows: null,
       createdAt: ctx.now(),
       updatedAt: ctx.now(),
     });
@@ -111,9 +111,8 @@ export async function createInvoice(ctx: InvoicesContext, viewer: Account, contr
     if (moved.affected !== 1) throw AppError.conflict('The contract changed meanwhile; reload it and try again.', 'contract_changed');
     return id;
   });
-  // After the commit: the payments API (idempotent, retried later if it is down) and the PDF.
+  // After the commit: the payments API (idempotent, retried later if it is down), then the PDF once it is sent.
   await syncInvoice(ctx, invoiceId);
-  await ensureInvoicePdf(ctx, invoiceId).catch((err) => ctx.log(`[invoices] PDF for ${invoiceId} not rendered yet: ${err instanceof Error ? err.message : String(err)}`));
   return viewOf(ctx, viewer, await ctx.ds.manager.findOneByOrFail(Invoice, { id: invoiceId }));
 }
 
@@ -138,7 +137,7 @@ async function nextInvoiceNumber(tx: EntityManager, grazierId: string): Promise<
   throw AppError.conflict('Invoices are being numbered by another request; try again.', 'numbering_busy');
 }
 
-export async function listInvoices(ctx: InvoicesContext, viewer: Account, query: unknown): Promise<InvoiceListView> {
+export async function listInvoices(ctx: ServiceContext, viewer: Account, query: unknown): Promise<InvoiceListView> {
   const q = await check(invoiceListQuerySchema, query ?? {});
   const side: InvoiceSide = q.side ?? (hasRole(viewer, 'grazier') ? 'receivable' : 'payable');
   const rows = await ctx.ds.manager.find(Invoice, {
@@ -150,7 +149,7 @@ export async function listInvoices(ctx: InvoicesContext, viewer: Account, query:
   return { side, items, totals: invoiceTotals(items.map((i) => ({ displayStatus: i.displayStatus, totalCents: i.totalCents, paidDay: i.receipt?.paidDay ?? null })), seasonOf(todayIn(zone, ctx.now()))) };
 }
 
-export async function getInvoice(ctx: InvoicesContext, viewer: Account, id: string): Promise<InvoiceView> {
+export async function getInvoice(ctx: ServiceContext, viewer: Account, id: string): Promise<InvoiceView> {
   let inv = await ctx.ds.manager.findOneBy(Invoice, { id });
   assertInvoiceParty(viewer, inv);
   // An invoice still being issued is pushed on whenever someone looks at it (and by the recovery timer).
@@ -158,13 +157,15 @@ export async function getInvoice(ctx: InvoicesContext, viewer: Account, id: stri
   return viewOf(ctx, viewer, inv);
 }
 
-/** The stored PDF's path (rendered now if an earlier render did not happen), for either party. */
-export async function invoicePdf(ctx: InvoicesContext, viewerId: string, id: string): Promise<{ path: string; fileName: string }> {
+/** The newest stored PDF of the invoice (rendered now if the last render did not happen), for either party. */
+export async function invoicePdf(ctx: ServiceContext, viewerId: string, id: string): Promise<Document> {
   const viewer = await ctx.ds.manager.findOneBy(Account, { id: viewerId });
   const inv = await ctx.ds.manager.findOneBy(Invoice, { id });
   if (!viewer) throw AppError.notFound('Invoice');
   assertInvoiceParty(viewer, inv);
-  return { path: await ensureInvoicePdf(ctx, inv.id), fileName: `invoice-${invoiceNumberLabel(inv.numberPrefix, inv.number)}.pdf` };
+  const doc = await ensureInvoicePdf(ctx, inv.id);
+  if (!doc) throw AppError.conflict('This invoice is still being issued with the payments service; its PDF follows once it is sent.', 'not_issued');
+  return doc;
 }
 
 /**
@@ -174,7 +175,7 @@ export async function invoicePdf(ctx: InvoicesContext, viewerId: string, id: str
  * unpaid with the reason in plain words (402); a timeout frees the lease by time, and the next attempt learns
  * from the API if the first went through ("already paid").
  */
-export async function payInvoice(ctx: InvoicesContext, viewer: Account, id: string, body: unknown): Promise<InvoiceView> {
+export async function payInvoice(ctx: ServiceContext, viewer: Account, id: string, body: unknown): Promise<InvoiceView> {
   const input = (await check(payInvoiceSchema, body)) as PayInvoiceInput;
   let inv = await ctx.ds.manager.findOneBy(Invoice, { id });
   assertInvoiceParty(viewer, inv);
@@ -234,11 +235,12 @@ export async function payInvoice(ctx: InvoicesContext, viewer: Account, id: stri
     await markPaid(tx, ctx, id, { paidAt: outcome.invoice.paidAt ?? ctx.now(), paidWith: outcome.kind === 'paid' ? input.paymentMethod : null, provider: outcome.invoice });
   });
   ctx.outbox.kick();
+  await refreshInvoicePdf(ctx, id);
   return viewOf(ctx, viewer, await ctx.ds.manager.findOneByOrFail(Invoice, { id }));
 }
 
 /** The grazier cancels an unpaid invoice (e.g. issued in error); the API's copy is voided after the commit. */
-export async function voidInvoice(ctx: InvoicesContext, viewer: Account, id: string): Promise<InvoiceView> {
+export async function voidInvoice(ctx: ServiceContext, viewer: Account, id: string): Promise<InvoiceView> {
   const inv = await ctx.ds.manager.findOneBy(Invoice, { id });
   assertInvoiceParty(viewer, inv);
   assertIssuer(viewer, inv);

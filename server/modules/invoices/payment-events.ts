@@ -1,8 +1,8 @@
 import { inTransaction } from '../../lib/db/transaction';
 import type { PaymentEvent } from '../../lib/payments';
 import { Invoice, PaymentEventRecord } from './invoice.entity';
-import type { InvoiceWorkContext } from './invoices-context';
-import { markPaid, markSent } from './invoice-sync';
+import type { ServiceContext } from '../../lib/service-context';
+import { markPaid, markSent, refreshInvoicePdf } from './invoice-sync';
 
 // Events from the payments API, each applied once. The event's id is stored in the same transaction that applies
 // it (its primary key refuses a second row), so a redelivered event changes nothing. Events may arrive in any
@@ -11,7 +11,8 @@ import { markPaid, markSent } from './invoice-sync';
 
 export type EventOutcome = 'applied' | 'no-change' | 'unmatched' | 'ignored' | 'duplicate';
 
-export async function applyPaymentEvent(ctx: InvoiceWorkContext, event: PaymentEvent): Promise<EventOutcome> {
+export async function applyPaymentEvent(ctx: ServiceContext, event: PaymentEvent): Promise<EventOutcome> {
+  let invoiceId: string | null = null;
   const outcome = await inTransaction(ctx.ds, async (tx): Promise<EventOutcome> => {
     if (await tx.findOneBy(PaymentEventRecord, { id: event.id })) return 'duplicate';
     let invoice: Invoice | null = null;
@@ -56,9 +57,13 @@ export async function applyPaymentEvent(ctx: InvoiceWorkContext, event: PaymentE
           result = 'ignored';
       }
     }
+    invoiceId = invoice?.id ?? null;
     await tx.insert(PaymentEventRecord, { id: event.id, type: event.type, invoiceId: invoice?.id ?? null, outcome: result, receivedAt: ctx.now() });
     return result;
   });
-  if (outcome === 'applied') ctx.outbox.kick();
+  if (outcome === 'applied' && invoiceId) {
+    ctx.outbox.kick();
+    await refreshInvoicePdf(ctx, invoiceId);
+  }
   return outcome;
 }
