@@ -150,6 +150,10 @@ describe('Invoicing an agreed contract and paying it online', () => {
     expect(text).toMatch(/Total \(paid\)\s+\$1,728\.00/);
     expect(text).toContain('PAID');
     const wade = await login('wade@calder.example');
-    expect((await fetch(`${BASE_URL}/api/invoices/${invoiceId}/pdf`, { headers: { Authorization: `Bearer ${wade}` } })).status).toBe(200);
+    const byGrazier = await fetch(`${BASE_URL}/api/invoices/${invoiceId}/pdf`, { headers: { Authorization: `Bearer ${wade}` } });
+    expect(byGrazier.status).toBe(200);
+    // The same newest version for both parties.
+    expect(byGrazier.headers.get('etag')).toBe(res.headers.get('etag'));
+    await byGrazier.arrayBuffer();
   });
 });

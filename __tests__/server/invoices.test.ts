@@ -170,6 +170,25 @@ describe('POST /api/invoices/:id/pay', () => {
     expect((await stripe.invoices.retrieve(row.providerInvoiceId!, { expand: ['payments'] })).payments?.data).toHaveLength(1);
   });
 
+  test('When the grazier voids an unpaid invoice, then it is void here and in the API and cannot be paid; a paid one cannot be voided', async () => {
+    const { invoice, grazier, grower } = await invoiced(t);
+    expect((await t.api().post(`/api/invoices/${invoice.id}/void`).set(grower.auth)).status).toBe(403);
+    const voided = await t.api().post(`/api/invoices/${invoice.id}/void`).set(grazier.auth);
+    expect(voided.status).toBe(200);
+    expect(voided.body.invoice).toMatchObject({ status: 'void', displayStatus: 'void', payment: { ready: false } });
+    const row = await t.dataSource.getRepository(Invoice).findOneByOrFail({ id: invoice.id });
+    expect((await t.stripe.invoices.retrieve(row.providerInvoiceId!)).status).toBe('void');
+    const pay = await t.api().post(`/api/invoices/${invoice.id}/pay`).set(grower.auth).send({ paymentMethod: 'pm_card_visa' });
+    expect(pay.status).toBe(409);
+    expect(pay.body.error.code).toBe('invoice_void');
+
+    const other = await invoiced(t, { grazier, grower });
+    await t.api().post(`/api/invoices/${other.invoice.id}/pay`).set(grower.auth).send({ paymentMethod: 'pm_card_visa' });
+    const late = await t.api().post(`/api/invoices/${other.invoice.id}/void`).set(grazier.auth);
+    expect(late.status).toBe(409);
+    expect(late.body.error.code).toBe('already_paid');
+  });
+
   test('When a grower tries to pay someone else’s invoice, then 404; the grazier of it gets 403; a made-up method 400', async () => {
     const { invoice, grazier, grower } = await invoiced(t);
     const otherGrower = await t.grower('Tomas Other');
@@ -306,6 +325,11 @@ describe('recovery: the payments API down, or a crash between steps', () => {
     const row = await t.dataSource.getRepository(Invoice).findOneByOrFail({ id: created.body.invoice.id });
     expect(row.syncError).toMatch(/connection refused/);
     expect(row.syncNextAt).toBe(TEST_NOW + 10_000);
+
+    // No PDF before the invoice is issued.
+    const pdf = await t.api().get(`/api/invoices/${row.id}/pdf`).set(c.grazier.auth);
+    expect(pdf.status).toBe(409);
+    expect(pdf.body.error.code).toBe('not_issued');
 
     // Paying now is refused plainly (the service is still down), charging nothing.
     const early = await t.api().post(`/api/invoices/${row.id}/pay`).set(c.grower.auth).send({ paymentMethod: 'pm_card_visa' });

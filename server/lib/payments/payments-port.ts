@@ -1,3 +1,4 @@
+import crypto from 'node:crypto';
 import type { TestPaymentMethodId } from '../../../lib/payments';
 
 // Payments as a port: the invoices service says what it needs (a customer, a draft invoice with its lines, a
@@ -77,6 +78,12 @@ export interface PaymentsPort {
   retrieve(providerInvoiceId: string): Promise<ProviderInvoice>;
   /** Checks the signature and its timestamp against the raw body; throws WebhookVerificationError. */
   verifyWebhook(rawBody: Buffer, signatureHeader: string | undefined): PaymentEvent;
+}
+
+/** The idempotency key of one grower's customer record: a changed name or email is a different request. */
+export function customerKey(input: CustomerInput): string {
+  const digest = crypto.createHash('sha256').update(`${input.email}\n${input.name}`).digest('hex').slice(0, 12);
+  return `fieldfold:customer:${input.accountId}:${digest}`;
 }
 
 /** The payments API could not be reached or failed on its side: the work is kept and retried later. */

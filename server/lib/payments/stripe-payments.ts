@@ -1,4 +1,3 @@
-import crypto from 'node:crypto';
 import Stripe from 'stripe';
 import type { PaymentsConfig } from '../../config/env';
 import type { TestPaymentMethodId } from '../../../lib/payments';
@@ -140,12 +139,6 @@ export class StripePayments implements PaymentsPort {
       invoice: object.object === 'invoice' ? toProviderInvoice(object as Stripe.Invoice) : null,
     };
   }
-}
-
-/** Idempotency keys for one grower's customer record: a changed name or email is a different request. */
-export function customerKey(input: CustomerInput): string {
-  const digest = crypto.createHash('sha256').update(`${input.email}\n${input.name}`).digest('hex').slice(0, 12);
-  return `fieldfold:customer:${input.accountId}:${digest}`;
 }
 
 function toProviderInvoice(inv: Stripe.Invoice): ProviderInvoice {

@@ -1,8 +1,7 @@
 import { IsNull, LessThanOrEqual, type EntityManager } from 'typeorm';
 import { inTransaction } from '../../lib/db/transaction';
 import { queueMail } from '../../lib/mail/outbox';
-import { PaymentsUnavailableError, type ProviderInvoice } from '../../lib/payments';
-import { customerKey } from '../../lib/payments/stripe-payments';
+import { customerKey, PaymentsUnavailableError, type ProviderInvoice } from '../../lib/payments';
 import { invoiceLinesFromCharge, type InvoicePdfData } from '../../lib/pdf/pdf-renderer';
 import { latestDocument, storeRenderedDocument, type Document } from '../documents/documents.service';
 import { Account } from '../accounts/account.entity';
