@@ -6,7 +6,7 @@ import Stripe from 'stripe';
 import { startPaymentsFake, type PaymentsFake } from '../../server/fakes/payments/fake';
 import { createPayments, PaymentsUnavailableError, type PaymentsPort } from '../../server/lib/payments';
 import { Contract } from '../../server/modules/contracts/contract.entity';
-import { makeTestApp, type TestAppOptions } from './test-app';
+import { makeTestApp, TEST_NOW, type TestAppOptions } from './test-app';
 import { market, type Person } from './market';
 
 // The app on a fresh database with the payments fake running in-process (the real SDK adapter talks to it), and
@@ -46,6 +46,8 @@ export class FaultyPayments implements PaymentsPort {
 
 export async function makeInvoicingApp(options: Omit<TestAppOptions, 'payments'> & { latencyMs?: number } = {}) {
   const fakeDir = fs.mkdtempSync(path.join(os.tmpdir(), 'fieldfold-payments-'));
+  // One clock for the app and the fake's timestamps (paid_at, created), moved together by setNow.
+  const clock = { now: TEST_NOW };
   const fake: PaymentsFake = await startPaymentsFake({
     port: 0,
     dataDir: fakeDir,
@@ -53,6 +55,7 @@ export async function makeInvoicingApp(options: Omit<TestAppOptions, 'payments'>
     webhookSecret: WEBHOOK_SECRET,
     autoDeliver: false,
     latencyMs: options.latencyMs,
+    now: () => clock.now,
     log: () => {},
   });
   const payments = new FaultyPayments(createPayments({ mode: 'fake', secretKey: 'sk_test_fieldfold', apiUrl: fake.url, webhookSecret: WEBHOOK_SECRET, webhookToleranceSeconds: 300 }));
@@ -96,6 +99,11 @@ export async function makeInvoicingApp(options: Omit<TestAppOptions, 'payments'>
     /** The SDK on the fake, to look at (or act on) the API's side directly. */
     stripe: new Stripe('sk_test_fieldfold', { host: '127.0.0.1', port: fake.port, protocol: 'http' }),
     agreedContract,
+    /** Moves the app's clock and the fake's together (ISO instant with offset). */
+    setNow: (iso: string) => {
+      t.setNow(iso);
+      clock.now = Date.parse(iso);
+    },
     deliver,
     eventsFor,
     close: async () => {
