@@ -10,6 +10,12 @@ const procs = [
     stdio: 'inherit',
     env: { ...process.env, PORT: apiPort, CORS_ORIGIN: 'http://localhost:8081' },
   }),
+  // The local payments fake the SDK talks to (PAYMENTS_FAKE_PORT, 12111), delivering webhooks to the API above.
+  spawn('npx', ['tsx', '--tsconfig', 'server/tsconfig.json', 'server/fakes/payments/main.ts'], {
+    cwd: root,
+    stdio: 'inherit',
+    env: { ...process.env, PORT: apiPort },
+  }),
   spawn('npx', ['expo', 'start', '--web', '--port', '8081'], {
     cwd: root,
     stdio: 'inherit',

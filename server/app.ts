@@ -7,6 +7,8 @@ import { calcRouter } from './modules/calc/calc.routes';
 import { blocksRouter } from './modules/blocks/blocks.routes';
 import { bidsRouter } from './modules/bids/bids.routes';
 import { contractsRouter } from './modules/contracts/contracts.routes';
+import { invoicesRouter, paymentsWebhookRouter } from './modules/invoices/invoices.routes';
+import type { PaymentsPort } from './lib/payments';
 import { errorHandler, notFoundHandler } from './lib/errors/error-handler';
 import type { MailOutbox } from './lib/mail/outbox';
 import { appLinks } from './lib/mail/links';
@@ -35,6 +37,8 @@ export interface AppDeps {
   publicUrl?: string;
   /** Clock in epoch ms, for "today" at a block, sessions and mail; tests fix it. */
   now?: () => number;
+  /** The payments API (server/lib/payments): the SDK adapter on the local fake or the hosted API. */
+  payments: PaymentsPort;
 }
 
 /** The ports the business modules use, from the app's dependencies (tests build one to call services directly). */
@@ -48,6 +52,7 @@ export function serviceContext(deps: AppDeps): ServiceContext {
     photos: localPhotoStore(deps.uploadsDir),
     documents: localFileStore(deps.documentsDir),
     pdf: deps.pdf ?? pdfkitRenderer(),
+    payments: deps.payments,
     tokenSecret: deps.tokens.secret,
   };
 }
@@ -78,7 +83,10 @@ export function createApp(deps: AppDeps): Express {
   api.use(blocksRouter(ctx));
   api.use(bidsRouter(ctx));
   api.use(contractsRouter(ctx));
+  api.use(invoicesRouter(ctx));
   api.use(notFoundHandler);
+  // Ahead of the API router and its JSON parser: the webhook's signature covers the raw bytes.
+  app.use('/api', paymentsWebhookRouter(ctx));
   app.use('/api', api);
 
   if (deps.webDir && fs.existsSync(path.join(deps.webDir, 'index.html'))) {

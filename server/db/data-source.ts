@@ -8,6 +8,7 @@ import { Contract } from '../modules/contracts/contract.entity';
 import { ContractAmendment, ContractSignature, LogEntry, LogPhoto, SignOff } from '../modules/contracts/contract-records.entity';
 import { OutboxMessage } from '../lib/mail/outbox.entity';
 import { Document } from '../modules/documents/document.entity';
+import { Invoice, InvoiceCounter, PaymentCustomer, PaymentEventRecord } from '../modules/invoices/invoice.entity';
 import { Accounts1764600000000 } from './migrations/1764600000000-accounts';
 import { Blocks1764700000000 } from './migrations/1764700000000-blocks';
 import { Bids1764700100000 } from './migrations/1764700100000-bids';
@@ -15,8 +16,9 @@ import { Contracts1764700200000 } from './migrations/1764700200000-contracts';
 import { MailOutbox1765000000000 } from './migrations/1765000000000-mail-outbox';
 import { ContractSigningLog1765100000000 } from './migrations/1765100000000-contract-signing-log';
 import { Documents1765200000000 } from './migrations/1765200000000-documents';
+import { Invoices1765300000000 } from './migrations/1765300000000-invoices';
 
-export const entities = [Account, Session, Block, BlockPhoto, Bid, Contract, ContractSignature, ContractAmendment, LogEntry, LogPhoto, SignOff, OutboxMessage, Document];
+export const entities = [Account, Session, Block, BlockPhoto, Bid, Contract, ContractSignature, ContractAmendment, LogEntry, LogPhoto, SignOff, OutboxMessage, Document, Invoice, InvoiceCounter, PaymentEventRecord, PaymentCustomer];
 export const migrations = [
   Accounts1764600000000,
   Blocks1764700000000,
@@ -25,6 +27,7 @@ export const migrations = [
   MailOutbox1765000000000,
   ContractSigningLog1765100000000,
   Documents1765200000000,
+  Invoices1765300000000,
 ];
 
 /** `database` is a file path, or ':memory:' for tests. Migrations only; never synchronize. */
