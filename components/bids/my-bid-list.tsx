@@ -40,7 +40,7 @@ export function MyBidList() {
     );
   }
 
-  const contractByBid = new Map((contracts.data ?? []).map((c) => [c.bidId, c.id]));
+  const contractByBid = new Map(contracts.items.map((c) => [c.bidId, c.id]));
   const groups = BID_STATUSES.map((status) => ({ status, items: bids.data.filter((b) => b.status === status) })).filter((g) => g.items.length > 0);
 
   return (

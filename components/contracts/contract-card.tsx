@@ -1,17 +1,19 @@
 import { Link } from 'expo-router';
 import { Pressable, StyleSheet, View } from 'react-native';
-import type { ContractView } from '@/lib/schemas/contract';
+import type { ContractDetailView } from '@/hooks/api/contracts';
 import { formatCents } from '@/lib/money';
 import { formatDayRange, formatNumber } from '@/lib/format';
 import { Text } from '@/components/ui';
 import { colors, radius, space } from '@/components/ui/theme';
 import { formatRate } from '@/components/bids/bid-terms';
 import { ContractStatusBadge } from './contract-status';
+import { nextStep, sideOf } from './next-step';
 
-/** One contract in the list, from the viewer's side: the block, the other party, the stay and the estimate. */
-export function ContractCard({ contract, viewerId }: { contract: ContractView; viewerId: string | undefined }) {
+/** One contract in the list, from the viewer's side: the block, the other party, the stay, the estimate, and what comes next. */
+export function ContractCard({ contract, viewerId }: { contract: ContractDetailView; viewerId: string | undefined }) {
   const iAmGrazier = contract.grazier.id === viewerId;
   const other = iAmGrazier ? contract.grower : contract.grazier;
+  const next = nextStep(contract, sideOf(contract, viewerId));
   return (
     <Link href={`/contracts/${contract.id}`} asChild>
       <Pressable
@@ -36,6 +38,12 @@ export function ContractCard({ contract, viewerId }: { contract: ContractView; v
           {formatRate(contract.basis, contract.rate)} · estimated {formatCents(contract.normalised.estimatedTotalCents)} for{' '}
           {formatNumber(contract.normalised.headDays)} head-days
         </Text>
+        <View style={StyleSheet.flatten([styles.next, next.mine && styles.nextMine])}>
+          <Text variant="label" tone={next.mine ? 'caution' : 'muted'} testID={`next-step-${contract.id}`}>
+            {next.mine ? 'Your move: ' : 'Next: '}
+            {next.text}
+          </Text>
+        </View>
       </Pressable>
     </Link>
   );
@@ -45,4 +53,6 @@ const styles = StyleSheet.create({
   card: { backgroundColor: colors.surface, borderRadius: radius.lg, borderWidth: 1, borderColor: colors.line, padding: space.lg, gap: space.xs },
   head: { flexDirection: 'row', justifyContent: 'space-between', alignItems: 'flex-start', gap: space.sm, flexWrap: 'wrap' },
   name: { flexShrink: 1 },
+  next: { marginTop: space.xs, paddingTop: space.sm, borderTopWidth: 1, borderTopColor: colors.line },
+  nextMine: { borderTopColor: colors.cautionLine },
 });

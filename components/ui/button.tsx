@@ -7,9 +7,11 @@ export interface ButtonProps extends Omit<PressableProps, 'children'> {
   variant?: 'primary' | 'secondary' | 'quiet' | 'danger';
   loading?: boolean;
   compact?: boolean;
+  /** Gloves-on size for the field screens (the grazing log): at least 56 px tall. */
+  large?: boolean;
 }
 
-export function Button({ title, variant = 'primary', loading, disabled, compact, style, ...rest }: ButtonProps) {
+export function Button({ title, variant = 'primary', loading, disabled, compact, large, style, ...rest }: ButtonProps) {
   const inactive = disabled || loading;
   return (
     <Pressable
@@ -19,6 +21,7 @@ export function Button({ title, variant = 'primary', loading, disabled, compact,
       style={(state) => [
         styles.base,
         compact && styles.compact,
+        large && styles.large,
         styles[variant],
         (state as { hovered?: boolean }).hovered && !inactive && styles[`${variant}Hover`],
         state.pressed && !inactive && styles.pressed,
@@ -29,7 +32,7 @@ export function Button({ title, variant = 'primary', loading, disabled, compact,
     >
       <View style={styles.row}>
         {loading ? <ActivityIndicator size="small" color={variant === 'primary' || variant === 'danger' ? colors.onCover : colors.cover} /> : null}
-        <Text variant="label" style={[styles.label, { color: labelColor[variant] }]}>
+        <Text variant="label" style={[styles.label, large && styles.largeLabel, { color: labelColor[variant] }]}>
           {title}
         </Text>
       </View>
@@ -51,6 +54,8 @@ const styles = StyleSheet.create({
     borderColor: 'transparent',
   },
   compact: { minHeight: 36, paddingHorizontal: space.md },
+  large: { minHeight: 56, paddingHorizontal: space.xl },
+  largeLabel: { fontSize: 17 },
   row: { flexDirection: 'row', alignItems: 'center', gap: space.sm },
   label: { fontSize: 15 },
   primary: { backgroundColor: colors.cover },

@@ -10,3 +10,5 @@ export { TwoPane } from './two-pane';
 export { Segmented } from './segmented';
 export { Chip } from './chip';
 export { Figure } from './figure';
+export { Checkbox } from './checkbox';
+export { Stepper } from './stepper';

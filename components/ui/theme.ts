@@ -37,6 +37,8 @@ export const fonts = {
   bodyBold: 'PublicSans_700Bold',
   display: 'Bitter_700Bold',
   heading: 'Bitter_600SemiBold',
+  /** Fingerprints and ids: the system's monospace (nothing to ship; only hex digits use it). */
+  mono: 'monospace',
 } as const;
 
 /** Type scale: size / line height in px. Display and headings in the slab serif, the rest in the sans. */

@@ -1,6 +1,7 @@
 import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import type { AccountView, LoginInput, ProfileInput, RegisterInput } from '@/lib/schemas/account';
-import { api } from './client';
+import { accountStorage } from '@/hooks/auth/token-storage';
+import { api, ApiError } from './client';
 
 export interface SessionPayload {
   token: string;
@@ -14,12 +15,32 @@ export const accountKeys = {
 
 export const fetchMe = (token: string) => api<{ user: AccountView }>('/me', { token }).then((r) => r.user);
 
+/**
+ * The signed-in account: from /api/me, kept on the device each time; when the network fails (no answer, or
+ * the server is down) the kept account is used, so a grazier with no signal stays signed in. Only the
+ * server's 401 ends a session.
+ */
+export async function fetchMeOrKept(token: string): Promise<AccountView> {
+  try {
+    const user = await fetchMe(token);
+    await accountStorage.set(user);
+    return user;
+  } catch (err) {
+    const unreachable = err instanceof ApiError && (err.status === 0 || err.status >= 500);
+    const kept = unreachable ? await accountStorage.get() : null;
+    if (kept) return kept;
+    throw err;
+  }
+}
+
 export const meQueryOptions = (token: string | null) =>
   queryOptions({
     queryKey: accountKeys.me(token),
-    queryFn: () => fetchMe(token!),
+    queryFn: () => fetchMeOrKept(token!),
     enabled: !!token,
     staleTime: 60_000,
+    // Run (and fall back to the kept account) even while the browser reports no network.
+    networkMode: 'always',
   });
 
 export function useMe(token: string | null) {
@@ -36,6 +57,7 @@ export function useUpdateProfile() {
     mutationFn: (body: ProfileInput) => api<{ user: AccountView }>('/me', { method: 'PATCH', body }).then((r) => r.user),
     onSuccess: (user) => {
       qc.setQueriesData({ queryKey: [...accountKeys.all, 'me'] }, user);
+      void accountStorage.set(user);
     },
   });
 }

@@ -62,6 +62,23 @@ export async function api<T>(
   return data as T;
 }
 
+/** A file the API serves behind sign-in (a PDF): the same bearer token and error handling, the body as a Blob. */
+export async function apiBlob(path: string): Promise<Blob> {
+  const token = currentToken;
+  let res: Response;
+  try {
+    res = await fetch(apiUrl(path), { headers: token ? { Authorization: `Bearer ${token}` } : {} });
+  } catch {
+    throw new ApiError(0, 'offline', 'Fieldfold could not be reached. Check the connection and try again.');
+  }
+  if (!res.ok) {
+    const e = (await res.json().catch(() => null))?.error;
+    if (res.status === 401 && token) onUnauthorized?.();
+    throw new ApiError(res.status, e?.code ?? 'http_error', e?.message ?? `The server answered ${res.status}`, e?.fields ?? {});
+  }
+  return res.blob();
+}
+
 /** Query text from a filter object: undefined, null and '' are left out. */
 export function queryString(params: Record<string, string | number | undefined | null>): string {
   const q = Object.entries(params)

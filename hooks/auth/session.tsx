@@ -1,11 +1,16 @@
 import { createContext, useCallback, useContext, useEffect, useMemo, useState, type ReactNode } from 'react';
 import { useQueryClient } from '@tanstack/react-query';
 import type { AccountView } from '@/lib/schemas/account';
-import { setAuthToken, setUnauthorizedHandler } from '@/hooks/api/client';
+import { ApiError, setAuthToken, setUnauthorizedHandler } from '@/hooks/api/client';
 import { accountKeys, logoutAccount, useMe, type SessionPayload } from '@/hooks/api/account';
-import { tokenStorage } from './token-storage';
+import { deviceCopies, setDeviceCopyOwner } from '@/hooks/offline/device-copies';
+import { accountStorage, tokenStorage } from './token-storage';
 
-type Status = 'loading' | 'signed-out' | 'signed-in';
+/**
+ * 'unreachable': a token is kept but neither the server nor the device could say whose it is (first visit
+ * with no network). The session is not ended for that: only the server's 401 signs someone out.
+ */
+type Status = 'loading' | 'signed-out' | 'signed-in' | 'unreachable';
 
 interface SessionValue {
   status: Status;
@@ -13,6 +18,8 @@ interface SessionValue {
   token: string | null;
   signIn: (payload: SessionPayload) => Promise<void>;
   signOut: () => Promise<void>;
+  /** Asks the server again who is signed in (after 'unreachable'). */
+  retry: () => void;
 }
 
 const SessionContext = createContext<SessionValue | null>(null);
@@ -34,6 +41,7 @@ export function SessionProvider({ children }: { children: ReactNode }) {
     setAuthToken(null);
     setToken(null);
     await tokenStorage.set(null);
+    await accountStorage.set(null);
     qc.clear();
   }, [qc]);
 
@@ -47,6 +55,7 @@ export function SessionProvider({ children }: { children: ReactNode }) {
   const signIn = useCallback(
     async ({ token: t, user }: SessionPayload) => {
       qc.setQueryData(accountKeys.me(t), user);
+      await accountStorage.set(user);
       setAuthToken(t);
       await tokenStorage.set(t);
       setToken(t);
@@ -54,18 +63,38 @@ export function SessionProvider({ children }: { children: ReactNode }) {
     [qc],
   );
 
+  const userId = me.data?.id ?? null;
   const signOut = useCallback(async () => {
     try {
       await logoutAccount();
     } catch {
       // Signing out locally matters more than telling the server; an expired token is already signed out.
     }
+    // Copies of contracts and logs kept for offline use go with the session (a shared phone or laptop).
+    if (userId) await deviceCopies.forget(userId);
     await clear();
-  }, [clear]);
+  }, [clear, userId]);
 
-  const status: Status = !restored || (token && me.isPending) ? 'loading' : token && me.data ? 'signed-in' : 'signed-out';
+  // Set during render, not in an effect: the signed-in screens mount in this same render and their
+  // queries read the owner when they fetch (child effects run before a parent's).
+  setDeviceCopyOwner(token ? userId : null);
 
-  const value = useMemo(() => ({ status, user: me.data ?? null, token, signIn, signOut }), [status, me.data, token, signIn, signOut]);
+  const unauthorized = me.error instanceof ApiError && me.error.status === 401;
+  const status: Status = !restored
+    ? 'loading'
+    : !token
+      ? 'signed-out'
+      : me.data
+        ? 'signed-in'
+        : me.isPending
+          ? 'loading'
+          : unauthorized
+            ? 'signed-out'
+            : 'unreachable';
+
+  const refetchMe = me.refetch;
+  const retry = useCallback(() => void refetchMe(), [refetchMe]);
+  const value = useMemo(() => ({ status, user: me.data ?? null, token, signIn, signOut, retry }), [status, me.data, token, signIn, signOut, retry]);
   return <SessionContext.Provider value={value}>{children}</SessionContext.Provider>;
 }
 

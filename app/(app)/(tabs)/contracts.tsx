@@ -3,7 +3,7 @@ import { ContractList } from '@/components/contracts/contract-list';
 
 export default function ContractsScreen() {
   return (
-    <Screen title="Contracts" subtitle="Head-day contracts: the terms agreed when a bid is awarded">
+    <Screen title="Contracts" subtitle="Head-day contracts: signing, the grazing log and the sign-off, grouped by where each stands">
       <ContractList />
     </Screen>
   );

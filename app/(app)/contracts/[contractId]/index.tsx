@@ -1,5 +1,5 @@
-import { Link, Stack, useLocalSearchParams } from 'expo-router';
-import { ErrorState, LoadingState, Screen, Text } from '@/components/ui';
+import { Stack, useLocalSearchParams } from 'expo-router';
+import { ErrorState, LoadingState, Screen } from '@/components/ui';
 import { ContractDetail } from '@/components/contracts/contract-detail';
 import { useContract } from '@/hooks/api/contracts';
 import { useSession } from '@/hooks/auth/session';
@@ -12,14 +12,9 @@ export default function ContractScreen() {
   if (contract.isError) return <ErrorState message={contract.error.message} onRetry={() => contract.refetch()} />;
   const c = contract.data;
   return (
-    <Screen title={`Contract · ${c.block.name}`} subtitle={`${c.block.crop}${c.block.placeName ? ` · ${c.block.placeName}` : ''}`}>
+    <Screen title={`Contract · ${c.block.name}`} subtitle={`${c.block.crop}${c.block.placeName ? ` · ${c.block.placeName}` : ''}`} back={{ label: 'Contracts', href: '/contracts' }}>
       <Stack.Screen options={{ title: `Contract · ${c.block.name} · Fieldfold` }} />
-      <Link href="/contracts">
-        <Text tone="cover" variant="bodyStrong">
-          ← Contracts
-        </Text>
-      </Link>
-      <ContractDetail contract={c} viewerId={user?.id} />
+      <ContractDetail contract={c} viewerId={user?.id} viewerName={user?.name ?? ''} />
     </Screen>
   );
 }
