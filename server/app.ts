@@ -1,5 +1,3 @@
-import fs from 'node:fs';
-import path from 'node:path';
 import express, { type Express } from 'express';
 import type { DataSource } from 'typeorm';
 import { accountsRouter } from './modules/accounts/accounts.routes';
@@ -8,6 +6,7 @@ import { blocksRouter } from './modules/blocks/blocks.routes';
 import { bidsRouter } from './modules/bids/bids.routes';
 import { contractsRouter } from './modules/contracts/contracts.routes';
 import { errorHandler, notFoundHandler } from './lib/errors/error-handler';
+import { compressAndCache, webApp } from './lib/http/web-app';
 import type { MailPort } from './lib/mail/mail-port';
 import { MemoryMail } from './lib/mail/memory-mail';
 import { localPhotoStore } from './lib/storage/photo-store';
@@ -33,6 +32,7 @@ export function createApp(deps: AppDeps): Express {
   const app = express();
   app.disable('x-powered-by');
   app.set('trust proxy', 'loopback');
+  app.use(compressAndCache());
 
   const api = express.Router();
   if (deps.corsOrigin) {
@@ -64,12 +64,7 @@ export function createApp(deps: AppDeps): Express {
   api.use(notFoundHandler);
   app.use('/api', api);
 
-  if (deps.webDir && fs.existsSync(path.join(deps.webDir, 'index.html'))) {
-    const webDir = path.resolve(deps.webDir);
-    app.use(express.static(webDir, { extensions: ['html'], index: 'index.html', maxAge: '1h' }));
-    // Deep links (/blocks/42) are routes of the single-page app.
-    app.get(/^(?!\/api\/).*/, (_req, res) => res.sendFile(path.join(webDir, 'index.html')));
-  }
+  if (deps.webDir) app.use(webApp(deps.webDir));
 
   app.use(errorHandler(deps.log));
   return app;

@@ -17,6 +17,8 @@ export interface TestAppOptions {
   log?: (msg: string) => void;
   /** A mail adapter other than the in-memory outbox (e.g. one that fails). */
   mail?: import('../../server/lib/mail/mail-port').MailPort;
+  /** An exported web app to serve beside the API. */
+  webDir?: string;
 }
 
 /** A fresh in-memory SQLite that ran the real migrations, and the real app on top of it. */
@@ -32,6 +34,7 @@ export async function makeTestApp(options: TestAppOptions = {}) {
     uploadsDir,
     mail: options.mail ?? mail,
     now: () => clock.now,
+    webDir: options.webDir,
   });
   let n = 0;
   async function signUp(roles: Array<'grower' | 'grazier'>, name = 'Test Person') {
