@@ -2,9 +2,10 @@ import type { PropsWithChildren } from 'react';
 import { ScrollViewStyleReset } from 'expo-router/html';
 import appConfig from '../app.json';
 import { colors } from '@/components/ui/theme';
+import { WebFontFaces } from '@/components/shell/web-fonts';
 
 // The page around every statically rendered route. Runs in Node at build time only (no window, no DOM):
-// Expo Router puts the rendered screen, its styles, the fonts' @font-face and the route's scripts inside.
+// Expo Router puts the rendered screen, its styles and the route's scripts inside.
 // The manifest and icons are written by scripts/web/manifest.ts after the export.
 export default function Root({ children }: PropsWithChildren) {
   return (
@@ -21,6 +22,7 @@ export default function Root({ children }: PropsWithChildren) {
         {/* React Native Web's full-height root, with body scrolling left to the screens' ScrollViews. */}
         <ScrollViewStyleReset />
         <style dangerouslySetInnerHTML={{ __html: `body{background-color:${colors.paper}}` }} />
+        <WebFontFaces />
       </head>
       <body>{children}</body>
     </html>

@@ -1,17 +1,11 @@
-import { FontDisplay, useFonts } from 'expo-font';
+import { WEB_FONT_FILES } from '@/components/shell/web-font-files';
 
-// The browser gets WOFF2 subsets of the TTFs (scripts/web/fonts.ts writes assets/fonts/web at build time; the TTFs
-// stay whole for the PDF renderer and native). With static rendering, expo-font writes these @font-face rules and
-// their preloads into each page's HTML, so useFonts reports them loaded on the first render and hydration matches.
-// `swap`: text paints at once in the fallback face (components/ui/font-family.web.ts) and changes face on arrival.
-const face = (uri: number) => ({ uri, display: FontDisplay.SWAP });
+// In the browser the faces are @font-face rules in every page's HTML (components/shell/web-fonts.tsx, through
+// app/+html.tsx): WOFF2 subsets cut at build time, font-display swap, so text shows at once in the fallback face
+// (components/ui/font-family.web.ts) and nothing waits for a font. The TTFs stay for native and the PDF renderer.
+// Requiring the files here is what makes Metro export them: it copies only assets the browser bundle asks for.
+const FACES = Object.keys(WEB_FONT_FILES).length;
 
-export function useAppFonts() {
-  return useFonts({
-    PublicSans_400Regular: face(require('../assets/fonts/web/PublicSans_400Regular.woff2')),
-    PublicSans_600SemiBold: face(require('../assets/fonts/web/PublicSans_600SemiBold.woff2')),
-    PublicSans_700Bold: face(require('../assets/fonts/web/PublicSans_700Bold.woff2')),
-    Bitter_600SemiBold: face(require('../assets/fonts/web/Bitter_600SemiBold.woff2')),
-    Bitter_700Bold: face(require('../assets/fonts/web/Bitter_700Bold.woff2')),
-  });
+export function useAppFonts(): [boolean, Error | null] {
+  return [FACES > 0, null];
 }

@@ -1,5 +1,5 @@
 // Builds the web app into dist/web (scripts/lib.mjs runs it through tsx when a source changed):
-// 1. web fonts: the TTFs subset to WOFF2 (scripts/web/fonts.ts), before Metro bundles them;
+// 1. web fonts: the TTFs cut into WOFF2 subsets (scripts/web/fonts.ts), before Metro bundles them;
 // 2. `expo export --platform web`: static HTML per route (app.json web.output "static"), split route chunks;
 // 3. the web app manifest and its icons (scripts/web/manifest.ts);
 // 4. the service worker with its precache (scripts/web/service-worker.ts);
@@ -18,7 +18,7 @@ const outDir = path.join(root, 'dist/web');
 async function main() {
   const fonts = await buildWebFonts(root);
   const kb = (n: number) => `${(n / 1024).toFixed(1)} kB`;
-  console.log(`[fieldfold] web fonts: ${fonts.map((f) => `${f.face} ${kb(f.woff2)}`).join(', ')}`);
+  console.log(`[fieldfold] web fonts: ${fonts.map((f) => `${f.file} ${kb(f.bytes)}`).join(', ')}`);
   if (process.argv.includes('--fonts-only')) return;
 
   const r = spawnSync('npx', ['expo', 'export', '--platform', 'web', '--output-dir', outDir], { cwd: root, stdio: 'inherit', env: { ...process.env, CI: '1' } });
