@@ -1,5 +1,3 @@
-import fs from 'node:fs';
-import path from 'node:path';
 import express, { type Express } from 'express';
 import type { DataSource } from 'typeorm';
 import { accountsRouter } from './modules/accounts/accounts.routes';
@@ -12,6 +10,7 @@ import type { PaymentsPort } from './lib/payments';
 import { errorHandler, notFoundHandler } from './lib/errors/error-handler';
 import type { MailOutbox } from './lib/mail/outbox';
 import { appLinks } from './lib/mail/links';
+import { compressAndCache, webApp } from './lib/http/web-app';
 import { localPhotoStore } from './lib/storage/photo-store';
 import { localFileStore } from './lib/storage/file-store';
 import type { PdfRenderer } from './lib/pdf/pdf-renderer';
@@ -62,6 +61,7 @@ export function createApp(deps: AppDeps): Express {
   const app = express();
   app.disable('x-powered-by');
   app.set('trust proxy', 'loopback');
+  app.use(compressAndCache());
 
   const api = express.Router();
   if (deps.corsOrigin) {
@@ -89,12 +89,7 @@ export function createApp(deps: AppDeps): Express {
   app.use('/api', paymentsWebhookRouter(ctx));
   app.use('/api', api);
 
-  if (deps.webDir && fs.existsSync(path.join(deps.webDir, 'index.html'))) {
-    const webDir = path.resolve(deps.webDir);
-    app.use(express.static(webDir, { extensions: ['html'], index: 'index.html', maxAge: '1h' }));
-    // Deep links (/blocks/42) are routes of the single-page app.
-    app.get(/^(?!\/api\/).*/, (_req, res) => res.sendFile(path.join(webDir, 'index.html')));
-  }
+  if (deps.webDir) app.use(webApp(deps.webDir));
 
   app.use(errorHandler(deps.log));
   return app;

@@ -24,6 +24,8 @@ export interface TestAppOptions {
   pdf?: AppDeps['pdf'];
   /** The payments API; by default one that nothing answers (tests that pay use helpers/invoicing.ts, with the fake). */
   payments?: PaymentsPort;
+  /** An exported web app to serve beside the API. */
+  webDir?: string;
 }
 
 /** A fresh in-memory SQLite that ran the real migrations, and the real app on top of it. */
@@ -48,6 +50,7 @@ export async function makeTestApp(options: TestAppOptions = {}) {
     now,
     pdf: options.pdf,
     payments: options.payments ?? createPayments({ mode: 'fake', secretKey: 'sk_test_nothing_answers', apiUrl: 'http://127.0.0.1:9', webhookSecret: 'whsec_unused_in_these_tests', webhookToleranceSeconds: 300 }),
+    webDir: options.webDir,
   };
   const app = createApp(deps);
   let n = 0;

@@ -63,7 +63,7 @@ function ReadyCard({ contract: c }: { contract: ContractView }) {
 export function ReadyToInvoice() {
   const contracts = useContracts();
   const { user } = useSession();
-  const ready = (contracts.data ?? []).filter((c) => c.status === 'agreed' && c.grazier.id === user?.id);
+  const ready = contracts.items.filter((c) => c.status === 'agreed' && c.grazier.id === user?.id);
   if (!ready.length) return null;
   return (
     <View style={styles.col}>
