@@ -11,9 +11,11 @@ import { Blocks1764700000000 } from './migrations/1764700000000-blocks';
 import { Bids1764700100000 } from './migrations/1764700100000-bids';
 import { Contracts1764700200000 } from './migrations/1764700200000-contracts';
 import { MailOutbox1765000000000 } from './migrations/1765000000000-mail-outbox';
+import { MarketFigures1765400000000 } from './migrations/1765400000000-market-figures';
+import { registerSqlFunctions } from './sql-functions';
 
 export const entities = [Account, Session, Block, BlockPhoto, Bid, Contract, OutboxMessage];
-export const migrations = [Accounts1764600000000, Blocks1764700000000, Bids1764700100000, Contracts1764700200000, MailOutbox1765000000000];
+export const migrations = [Accounts1764600000000, Blocks1764700000000, Bids1764700100000, Contracts1764700200000, MailOutbox1765000000000, MarketFigures1765400000000];
 
 /** `database` is a file path, or ':memory:' for tests. Migrations only; never synchronize. */
 export function createDataSource(database: string): DataSource {
@@ -27,10 +29,12 @@ export function createDataSource(database: string): DataSource {
     logging: false,
     // WAL lets the PDF and mail work read while a request writes; the busy timeout waits out a short lock
     // instead of failing with SQLITE_BUSY.
-    prepareDatabase: (db: { pragma: (s: string) => unknown }) => {
+    // The market's SQL calls lib's distance function (server/db/sql-functions.ts).
+    prepareDatabase: (db: { pragma: (s: string) => unknown } & Parameters<typeof registerSqlFunctions>[0]) => {
       if (database !== ':memory:') db.pragma('journal_mode = WAL');
       db.pragma('busy_timeout = 5000');
       db.pragma('foreign_keys = ON');
+      registerSqlFunctions(db);
     },
   });
 }
