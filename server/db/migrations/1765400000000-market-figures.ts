@@ -9,6 +9,9 @@ import type { SprayRecord } from '../../../lib/grazing/safety';
 //   allowable_lb              acres × lb DM/ac × utilisation (lib/grazing/capacity allowableForage): days of
 //                             feed for a flock = allowable ÷ (head × intake), an expression on an indexed column
 // Each market index leads with status, then the column one sort walks in order or one filter ranges over.
+/** The columns a market filter tests besides status, the last day and the place. */
+const FILTERED = '"owner_id", "time_zone", "graze_from", "acres", "allowable_lb", "species_allowed"';
+
 export class MarketFigures1765400000000 implements MigrationInterface {
   name = 'MarketFigures1765400000000';
 
@@ -34,13 +37,15 @@ export class MarketFigures1765400000000 implements MigrationInterface {
 
     await q.query(`DROP INDEX "idx_blocks_status"`);
     await q.query(`DROP INDEX "idx_blocks_owner"`);
-    // Counting the open market and finding the zones whose "today" decides a block read this index alone.
-    await q.query(`CREATE INDEX "idx_blocks_market_until" ON "blocks" ("status", "graze_until", "owner_id", "time_zone")`);
+    // Counting the market reads one of these two alone (no row lookups): every column a market filter tests
+    // is in both. The first leads with the last day (every market query ranges over it), the second with the
+    // place (a distance filter ranges over latitude first).
+    await q.query(`CREATE INDEX "idx_blocks_market_until" ON "blocks" ("status", "graze_until", ${FILTERED}, "latitude", "longitude")`);
+    await q.query(`CREATE INDEX "idx_blocks_market_place" ON "blocks" ("status", "latitude", "longitude", "graze_until", ${FILTERED})`);
     await q.query(`CREATE INDEX "idx_blocks_market_from" ON "blocks" ("status", "graze_from")`);
     await q.query(`CREATE INDEX "idx_blocks_market_acres" ON "blocks" ("status", "acres")`);
     await q.query(`CREATE INDEX "idx_blocks_market_allowable" ON "blocks" ("status", "allowable_lb")`);
     await q.query(`CREATE INDEX "idx_blocks_market_created" ON "blocks" ("status", "created_at")`);
-    await q.query(`CREATE INDEX "idx_blocks_market_place" ON "blocks" ("status", "latitude", "longitude")`);
     await q.query(`CREATE INDEX "idx_blocks_owner_created" ON "blocks" ("owner_id", "created_at")`);
 
     // A block's bids and a grazier's bids, in the order they are listed.

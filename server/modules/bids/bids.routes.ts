@@ -15,7 +15,7 @@ export function bidsRouter(ctx: ServiceContext): Router {
   });
 
   router.get('/blocks/:id/bids', auth, async (req, res) => {
-    res.json(await listBlockBids(ctx, signedIn(req), param(req, 'id')));
+    res.json(await listBlockBids(ctx, signedIn(req), param(req, 'id'), { ...req.query }));
   });
 
   router.get('/bids', auth, grazier, async (req, res) => {

@@ -3,7 +3,7 @@ import { Block } from './block.entity';
 import { distanceMilesSql } from '../../db/sql-functions';
 import { boundingBox, distanceMiles, type LatLng, type LatLngBox } from '../../../lib/geo';
 import { addDays, todayIn } from '../../../lib/day-keys';
-import type { BlockListQuery, BlockSort } from '../../../lib/schemas/block';
+import { GRAZING_SPECIES, type BlockListQuery, type BlockSort, type GrazingSpecies } from '../../../lib/schemas/block';
 
 // GET /api/blocks in SQL: every filter, the sort and the page run in the database on indexed columns, and
 // only the page's blocks are loaded. The order is exactly the one the market always had — the sort's figure,
@@ -84,6 +84,15 @@ function whereWithin(qb: Qb, home: LatLng, miles: number, tag: string): void {
   qb.andWhere(`${distanceMilesSql('homeLat', 'homeLng')} <= :${tag}Miles`, { homeLat: home.latitude, homeLng: home.longitude, [`${tag}Miles`]: miles });
 }
 
+/** Every comma-joined list of distinct species (in any order) that includes `species`. */
+function speciesListsWith(species: GrazingSpecies): string[] {
+  const lists: string[][] = [[]];
+  for (let n = 0; n < GRAZING_SPECIES.length; n++) {
+    for (const list of lists.filter((l) => l.length === n)) for (const s of GRAZING_SPECIES) if (!list.includes(s)) lists.push([...list, s]);
+  }
+  return lists.filter((l) => l.includes(species)).map((l) => l.join(','));
+}
+
 /** Days of feed for the viewer's flock, as SQL: the same two divisions, in the same order, as lib's capacity → daysForHead. */
 const DAYS_SQL = '((b.allowable_lb / :intake) / :head)';
 
@@ -99,7 +108,8 @@ async function filtered(ds: DataSource, nowMs: number, viewer: ListViewer, view:
   }
   if (q.minAcres !== undefined) qb.andWhere('b.acres >= :minAcres', { minAcres: q.minAcres });
   if (q.maxAcres !== undefined) qb.andWhere('b.acres <= :maxAcres', { maxAcres: q.maxAcres });
-  if (q.species) qb.andWhere("(',' || b.species_allowed || ',') LIKE :species", { species: `%,${q.species},%` });
+  // species_allowed is the list as entered ("sheep", "goats,sheep", …): match every list that holds the species.
+  if (q.species) qb.andWhere('b.species_allowed IN (:...speciesLists)', { speciesLists: speciesListsWith(q.species) });
   // A stay fits when the two ranges share at least one whole day: max(starts) < min(ends), term by term.
   if (q.from || q.to) {
     qb.andWhere('b.graze_from < b.graze_until');
