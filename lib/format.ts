@@ -1,8 +1,16 @@
 // Display formatting shared by screens, PDFs and mail. US-style grouping; the trade's units after a thin space.
 
+// toLocaleString builds a new formatter on every call; a printed log formats thousands of numbers.
+const numberFormats = new Map<number, Intl.NumberFormat>();
+
 export function formatNumber(value: number, maxDecimals = 0): string {
   if (!Number.isFinite(value)) return '—';
-  return value.toLocaleString('en-US', { maximumFractionDigits: maxDecimals, minimumFractionDigits: 0 });
+  let f = numberFormats.get(maxDecimals);
+  if (!f) {
+    f = new Intl.NumberFormat('en-US', { maximumFractionDigits: maxDecimals, minimumFractionDigits: 0 });
+    numberFormats.set(maxDecimals, f);
+  }
+  return f.format(value);
 }
 
 /** Whole days of feed, rounded down: a block is never promised for a day it cannot feed. */
@@ -26,4 +34,9 @@ export function formatDay(key: string | null | undefined): string {
 export function formatDayRange(from: string, to: string): string {
   if (from.slice(0, 4) === to.slice(0, 4)) return `${formatDay(from).replace(/, \d{4}$/, '')} – ${formatDay(to)}`;
   return `${formatDay(from)} – ${formatDay(to)}`;
+}
+
+/** The first 8 letters and digits of an id ("7c1e2f4a"), as file names, footers and screens quote a record. */
+export function shortId(id: string): string {
+  return id.replace(/[^A-Za-z0-9]/g, '').slice(0, 8).toLowerCase();
 }

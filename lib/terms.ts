@@ -29,11 +29,18 @@ export const RATE_UNIT: Record<ChargeBasis, string> = { 'head-day': '$ per head-
 /** What follows a price: "per head-day", "per acre", "for the job". */
 export const BASIS_UNIT: Record<ChargeBasis, string> = { 'head-day': 'per head-day', acre: 'per acre', flat: 'for the job' };
 
+/** The unit an invoice line's quantity is counted in, for each pricing basis. */
+export const BASIS_QUANTITY_UNIT: Record<ChargeBasis, string> = { 'head-day': 'head-days', acre: 'acres', flat: 'job' };
+
+/** "$0.18", "$0.1875", "$1,250.00": a rate in dollars as its decimal text (up to 6 decimals), grouped, at least 2 decimals. */
+export function formatRateAmount(rate: string): string {
+  const [whole, frac = ''] = rate.split('.');
+  return `$${whole.replace(/\B(?=(\d{3})+(?!\d))/g, ',')}.${frac.padEnd(2, '0')}`;
+}
+
 /** "$0.18 per head-day", "$22.50 per acre", "$4,200.00 for the job" — the rate as the grazier wrote it, grouped. */
 export function formatRate(basis: ChargeBasis, rate: string): string {
-  const [whole, frac = ''] = rate.split('.');
-  const grouped = whole.replace(/\B(?=(\d{3})+(?!\d))/g, ',');
-  return `$${grouped}.${frac.padEnd(2, '0')} ${BASIS_UNIT[basis]}`;
+  return `${formatRateAmount(rate)} ${BASIS_UNIT[basis]}`;
 }
 
 /** "600 dry ewes (sheep), 150 lb · Jan 5 – Jan 19, 2027" */

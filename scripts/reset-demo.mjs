@@ -8,4 +8,6 @@ const dataDir = path.resolve(root, process.env.DATA_DIR ?? 'data');
 for (const f of ['fieldfold.sqlite', 'fieldfold.sqlite-wal', 'fieldfold.sqlite-shm']) fs.rmSync(path.join(dataDir, f), { force: true });
 // Uploaded photos belong to the database's blocks: they go with it.
 fs.rmSync(path.join(dataDir, 'uploads'), { recursive: true, force: true });
+// So do the PDF records stored for its contracts and invoices.
+fs.rmSync(path.join(dataDir, 'documents'), { recursive: true, force: true });
 console.log(`[fieldfold] demo data reset in ${dataDir}; the next npm start seeds the Calder Valley district again.`);

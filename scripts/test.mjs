@@ -1,14 +1,15 @@
 // npm test: the one command that runs every suite on a fresh Debian machine.
 // 1. installs dependencies (npm ci) and Debian's chromium when missing;
 // 2. jest: the app project (jest-expo) and the server project (supertest on createApp, lib checks);
-// 3. builds the web app and server, starts the real server on a free port with a throw-away DATA_DIR,
-//    and runs the browser suite (playwright-core driving /usr/bin/chromium);
+// 3. builds the web app and server, starts the local services (mail sink) and the real server on free
+//    ports with a throw-away DATA_DIR, and runs the browser suite (playwright-core driving /usr/bin/chromium);
 // 4. prints one closing line totalling every suite: "N passed, N failed".
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import { spawnSync } from 'node:child_process';
 import { buildServer, buildWeb, ensureDependencies, freePort, root, startServer } from './lib.mjs';
+import { startLocalServices } from './local-services.mjs';
 
 const CHROMIUM = '/usr/bin/chromium';
 const artifacts = path.join(root, 'artifacts');
@@ -49,6 +50,7 @@ const add = (name, r) => {
 };
 
 let server;
+let services;
 try {
   ensureDependencies();
   ensureChromium();
@@ -58,13 +60,16 @@ try {
   buildServer();
   const port = await freePort();
   const dataDir = fs.mkdtempSync(path.join(os.tmpdir(), 'fieldfold-e2e-'));
-  server = await startServer({ PORT: String(port), HOST: '127.0.0.1', DATA_DIR: dataDir, NODE_ENV: 'test' }, { quiet: true });
-  add('browser suite (chromium)', jest(['--config', 'jest.e2e.config.js', '--runInBand', '--ci'], 'jest-e2e.json', { E2E_BASE_URL: `http://127.0.0.1:${port}` }));
+  services = await startLocalServices({ dataDir, quiet: true });
+  server = await startServer({ PORT: String(port), HOST: '127.0.0.1', DATA_DIR: dataDir, NODE_ENV: 'test', ...services.env }, { quiet: true });
+  const e2eEnv = { E2E_BASE_URL: `http://127.0.0.1:${port}`, E2E_MAIL_UI_URL: services.mailSink.url };
+  add('browser suite (chromium)', jest(['--config', 'jest.e2e.config.js', '--runInBand', '--ci'], 'jest-e2e.json', e2eEnv));
 } catch (err) {
   console.error(`[fieldfold] test run stopped: ${err.message}`);
   totals.failed += 1;
 } finally {
   server?.kill('SIGTERM');
+  await services?.stop();
 }
 
 console.log(`${totals.passed} passed, ${totals.failed} failed`);

@@ -11,6 +11,9 @@ import { errorHandler, notFoundHandler } from './lib/errors/error-handler';
 import type { MailOutbox } from './lib/mail/outbox';
 import { appLinks } from './lib/mail/links';
 import { localPhotoStore } from './lib/storage/photo-store';
+import { localFileStore } from './lib/storage/file-store';
+import type { PdfRenderer } from './lib/pdf/pdf-renderer';
+import { pdfkitRenderer } from './lib/pdf/pdfkit-renderer';
 import type { ServiceContext } from './lib/service-context';
 
 export interface AppDeps {
@@ -22,12 +25,31 @@ export interface AppDeps {
   log?: (msg: string) => void;
   /** Where block photos are stored (DATA_DIR/uploads in production, a temp folder in tests); outside the web root. */
   uploadsDir: string;
+  /** Where generated PDF records are stored (DATA_DIR/documents; a temp folder in tests); outside the web root. */
+  documentsDir: string;
+  /** The PDF renderer; defaults to pdfkit with Fieldfold's fonts. */
+  pdf?: PdfRenderer;
   /** The mail outbox's sender (server/lib/mail/outbox.ts): use cases queue mail, then kick it after commit. */
   outbox: MailOutbox;
   /** Where people open Fieldfold (links in mail); default http://localhost:8080. */
   publicUrl?: string;
   /** Clock in epoch ms, for "today" at a block, sessions and mail; tests fix it. */
   now?: () => number;
+}
+
+/** The ports the business modules use, from the app's dependencies (tests build one to call services directly). */
+export function serviceContext(deps: AppDeps): ServiceContext {
+  return {
+    ds: deps.dataSource,
+    outbox: deps.outbox,
+    links: appLinks(deps.publicUrl ?? 'http://localhost:8080'),
+    now: deps.now ?? Date.now,
+    log: deps.log ?? console.error,
+    photos: localPhotoStore(deps.uploadsDir),
+    documents: localFileStore(deps.documentsDir),
+    pdf: deps.pdf ?? pdfkitRenderer(),
+    tokenSecret: deps.tokens.secret,
+  };
 }
 
 /** Builds the whole HTTP app; never listens (server/index.ts does), so tests drive it with supertest. */
@@ -50,15 +72,7 @@ export function createApp(deps: AppDeps): Express {
     await deps.dataSource.query('SELECT 1');
     res.json({ ok: true, service: 'fieldfold' });
   });
-  const ctx: ServiceContext = {
-    ds: deps.dataSource,
-    outbox: deps.outbox,
-    links: appLinks(deps.publicUrl ?? 'http://localhost:8080'),
-    now: deps.now ?? Date.now,
-    log: deps.log ?? console.error,
-    photos: localPhotoStore(deps.uploadsDir),
-    tokenSecret: deps.tokens.secret,
-  };
+  const ctx = serviceContext(deps);
   api.use(accountsRouter(ctx, deps.tokens));
   api.use('/calc', calcRouter());
   api.use(blocksRouter(ctx));

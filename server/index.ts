@@ -4,8 +4,10 @@ import { loadConfig, ConfigError } from './config/env';
 import { openDatabase } from './db/data-source';
 import { seedDemoOnce } from './db/seed/demo';
 import { createApp } from './app';
+import type { MailPort } from './lib/mail/mail-port';
 import { MemoryMail } from './lib/mail/memory-mail';
 import { OutboxSender } from './lib/mail/outbox';
+import { SmtpMail } from './lib/mail/smtp-mail';
 
 // config → database (migrations) → demo seed (once) → listen → graceful shutdown.
 async function main() {
@@ -15,8 +17,11 @@ async function main() {
     const seeded = await seedDemoOnce(dataSource);
     if (seeded) console.log('[fieldfold] demo data seeded (see README for the demo accounts)');
   }
-  // Until the SMTP sink arrives, mail stays in memory and each message is announced by subject only.
-  const mail = new MemoryMail((msg) => console.log(`[mail] ${msg.subject}`), 500);
+  // npm start sets SMTP_PORT to the local mail sink; without it mail stays in memory and each message is
+  // announced by its subject, JSON-quoted so a subject can never break the log line.
+  const mail: MailPort = config.smtp
+    ? new SmtpMail({ ...config.smtp, from: config.mailFrom })
+    : new MemoryMail((msg) => console.log(`[mail] ${JSON.stringify(msg.subject)}`), 500);
   const outbox = new OutboxSender(dataSource, mail, Date.now, console.error);
   outbox.start();
   const app = createApp({
@@ -25,6 +30,7 @@ async function main() {
     webDir: config.webDir,
     corsOrigin: config.corsOrigin,
     uploadsDir: path.join(config.dataDir, 'uploads'),
+    documentsDir: path.join(config.dataDir, 'documents'),
     outbox,
     publicUrl: config.publicUrl,
   });
@@ -32,6 +38,10 @@ async function main() {
     const addr = server.address();
     const port = typeof addr === 'object' && addr ? addr.port : config.port;
     console.log(`[fieldfold] listening on http://localhost:${port} (data in ${config.dataDir})`);
+    if (config.smtp) {
+      const inbox = config.mailUiPort ? ` (local inbox: http://localhost:${config.mailUiPort})` : '';
+      console.log(`[fieldfold] mail goes to SMTP ${config.smtp.host}:${config.smtp.port}${inbox}`);
+    }
   });
 
   let closing = false;

@@ -206,7 +206,7 @@ describe('The grazier side of the market', () => {
     await page.getByRole('heading', { name: 'Find grazing' }).waitFor();
     await page.getByRole('tab', { name: 'Contracts' }).click();
     const item = page.getByRole('link', { name: `Contract for ${name}` }).filter({ visible: true });
-    await item.getByText('Awaiting signatures — signing comes next').waitFor();
+    await item.getByText('Awaiting signatures').waitFor();
     await screenshot(page, 'market-contracts-390');
     await item.click();
     await page.waitForURL(`**/contracts/${contract.id}`);

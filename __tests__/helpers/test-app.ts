@@ -4,7 +4,7 @@ import path from 'node:path';
 import request from 'supertest';
 import type { DataSource } from 'typeorm';
 import { openDatabase } from '../../server/db/data-source';
-import { createApp } from '../../server/app';
+import { createApp, serviceContext, type AppDeps } from '../../server/app';
 import { MemoryMail } from '../../server/lib/mail/memory-mail';
 import { OutboxSender } from '../../server/lib/mail/outbox';
 
@@ -25,21 +25,24 @@ export interface TestAppOptions {
 export async function makeTestApp(options: TestAppOptions = {}) {
   const dataSource = await openDatabase(':memory:');
   const uploadsDir = fs.mkdtempSync(path.join(os.tmpdir(), 'fieldfold-uploads-'));
+  const documentsDir = fs.mkdtempSync(path.join(os.tmpdir(), 'fieldfold-documents-'));
   const mail = new MemoryMail();
   const clock = { now: TEST_NOW };
   const now = () => clock.now;
   const log = options.log ?? (() => {});
   // The real outbox on the test database; tests call deliverMail() to run the sender to the end.
   const outbox = new OutboxSender(dataSource, options.mail ?? mail, now, log);
-  const app = createApp({
+  const deps: AppDeps = {
     dataSource,
     tokens: TEST_TOKENS,
     log,
     uploadsDir,
+    documentsDir,
     outbox,
     publicUrl: 'http://fieldfold.test',
     now,
-  });
+  };
+  const app = createApp(deps);
   let n = 0;
   async function signUp(roles: Array<'grower' | 'grazier'>, name = 'Test Person') {
     n += 1;
@@ -55,9 +58,12 @@ export async function makeTestApp(options: TestAppOptions = {}) {
     /** Everything the app mailed, oldest first (after deliverMail()). */
     mail,
     outbox,
+    /** The same ports the app's services get, for tests that call a service directly. */
+    ctx: serviceContext(deps),
     /** Runs the outbox sender until nothing due is left; resolves with how many were sent. */
     deliverMail: () => outbox.drain(),
     uploadsDir,
+    documentsDir,
     /** Moves the app's clock (ISO instant with offset). */
     setNow: (iso: string) => {
       clock.now = Date.parse(iso);
@@ -66,6 +72,7 @@ export async function makeTestApp(options: TestAppOptions = {}) {
       await outbox.stop();
       await (dataSource as DataSource).destroy();
       fs.rmSync(uploadsDir, { recursive: true, force: true });
+      fs.rmSync(documentsDir, { recursive: true, force: true });
     },
   };
 }

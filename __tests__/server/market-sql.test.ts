@@ -1,11 +1,9 @@
 import fc from 'fast-check';
-import { makeTestApp, TEST_NOW, TEST_TOKENS } from '../helpers/test-app';
+import { makeTestApp, TEST_NOW } from '../helpers/test-app';
 import { seedSeasonBlocks, seedSeasonPeople, type SeasonPeople } from '../helpers/market-season';
 import { AppError } from '../../server/lib/errors/app-error';
 import { check } from '../../server/lib/http/validate';
 import { hasRole } from '../../server/lib/http/auth';
-import { appLinks } from '../../server/lib/mail/links';
-import { localPhotoStore } from '../../server/lib/storage/photo-store';
 import type { ServiceContext } from '../../server/lib/service-context';
 import type { Account } from '../../server/modules/accounts/account.entity';
 import { Block } from '../../server/modules/blocks/block.entity';
@@ -125,15 +123,8 @@ const clock = { now: TEST_NOW };
 
 beforeAll(async () => {
   t = await makeTestApp();
-  ctx = {
-    ds: t.dataSource,
-    outbox: t.outbox,
-    links: appLinks('http://fieldfold.test'),
-    now: () => clock.now,
-    log: () => {},
-    photos: localPhotoStore(t.uploadsDir),
-    tokenSecret: TEST_TOKENS.secret,
-  };
+  // The app's own service context, on a clock these tests move.
+  ctx = { ...t.ctx, now: () => clock.now };
   people = await seedSeasonPeople(t.dataSource);
   blocks = await seedSeasonBlocks(t.dataSource, people, 360);
 }, 60_000);

@@ -1,5 +1,6 @@
 import * as yup from 'yup';
 import { SIGNUP_ROLES } from '../roles';
+import { oneLine } from './fields';
 import { rejectUnknown } from './reject-unknown';
 
 // One schema per request body, shared by the app's forms (Formik `validationSchema`) and the server's
@@ -7,14 +8,22 @@ import { rejectUnknown } from './reject-unknown';
 
 export const PASSWORD_MIN_LENGTH = 10;
 
-const email = yup
-  .string()
-  .strict()
-  .trim('Email must not start or end with spaces')
-  .lowercase('Email must be in lower case')
-  .email('Email must be a valid address, like name@example.com')
-  .max(254, 'Email is too long')
-  .required('Email is required');
+// The address goes into a To header: it must be one line whatever yup's email pattern allows.
+const email = oneLine(
+  yup
+    .string()
+    .strict()
+    .trim('Email must not start or end with spaces')
+    .lowercase('Email must be in lower case')
+    .email('Email must be a valid address, like name@example.com')
+    .max(254, 'Email is too long')
+    .required('Email is required'),
+  'Email',
+);
+
+/** A person's name as they sign up or edit it: it is shown to the other party and goes into mail. */
+const personName = () =>
+  oneLine(yup.string().strict().trim('Name must not start or end with spaces').min(2, 'Name is too short').max(120, 'Name is too long'), 'Name');
 
 export const registerSchema = rejectUnknown(
   yup.object({
@@ -25,7 +34,7 @@ export const registerSchema = rejectUnknown(
       .min(PASSWORD_MIN_LENGTH, `Password must be at least ${PASSWORD_MIN_LENGTH} characters`)
       .max(200, 'Password is too long')
       .required('Password is required'),
-    name: yup.string().strict().trim('Name must not start or end with spaces').min(2, 'Name is too short').max(120, 'Name is too long').required('Name is required'),
+    name: personName().required('Name is required'),
     roles: yup
       .array(
         yup
@@ -43,7 +52,7 @@ export const registerSchema = rejectUnknown(
 export type RegisterInput = yup.InferType<typeof registerSchema>;
 
 export const loginSchema = yup.object({
-  email: yup.string().strict().email('Email must be a valid address, like name@example.com').required('Email is required'),
+  email: oneLine(yup.string().strict().email('Email must be a valid address, like name@example.com').required('Email is required'), 'Email'),
   password: yup.string().strict().required('Password is required'),
 });
 
@@ -53,7 +62,7 @@ export const FLOCK_SPECIES = ['sheep', 'goats', 'mixed'] as const;
 export const FLOCK_CLASSES = ['dry ewes', 'ewes with lambs', 'weaned lambs', 'wethers', 'does', 'does with kids', 'mixed'] as const;
 
 const optionalText = (label: string, max: number) =>
-  yup.string().strict().trim(`${label} must not start or end with spaces`).max(max, `${label} is too long`).nullable();
+  oneLine(yup.string().strict().trim(`${label} must not start or end with spaces`).max(max, `${label} is too long`).nullable(), label);
 
 export const flockSchema = yup.object({
   species: yup.string().strict().oneOf([...FLOCK_SPECIES], 'Species must be sheep, goats or mixed').required('Species is required'),
@@ -64,13 +73,16 @@ export const flockSchema = yup.object({
 
 export const profileSchema = rejectUnknown(
   yup.object({
-    name: yup.string().strict().trim('Name must not start or end with spaces').min(2, 'Name is too short').max(120, 'Name is too long'),
+    name: personName(),
     businessName: optionalText('Business name', 120),
-    phone: yup
-      .string()
-      .strict()
-      .matches(/^\+?[0-9 ()-]{7,20}$/, { message: 'Phone must be digits, spaces, brackets or dashes (7–20)', excludeEmptyString: true })
-      .nullable(),
+    phone: oneLine(
+      yup
+        .string()
+        .strict()
+        .matches(/^\+?[0-9 ()-]{7,20}$/, { message: 'Phone must be digits, spaces, brackets or dashes (7–20)', excludeEmptyString: true })
+        .nullable(),
+      'Phone',
+    ),
     homePlace: optionalText('Home base', 120),
     homeLatitude: yup.number().strict().min(-90, 'Latitude must be between -90 and 90').max(90, 'Latitude must be between -90 and 90').nullable(),
     homeLongitude: yup.number().strict().min(-180, 'Longitude must be between -180 and 180').max(180, 'Longitude must be between -180 and 180').nullable(),

@@ -1,7 +1,7 @@
 import * as yup from 'yup';
 import { CHARGE_BASES, parseRate, RATE_PATTERN, type ChargeBasis } from '../money';
 import { FLOCK_CLASSES } from './account';
-import { bothDays, day, int, num, rejectUnknown, text } from './fields';
+import { bothDays, day, int, num, paragraphs, rejectUnknown } from './fields';
 import { pageFields } from './paging';
 import { FLOCK_SPECIES, type FlockSpecies } from '../grazing/flock-intake';
 import type { NormalisedBid } from '../grazing/bid-compare';
@@ -53,7 +53,7 @@ export const bidInputSchema = rejectUnknown(
       .typeError('Services must be a list')
       .test('unique', 'List each service once', (v) => v === undefined || new Set(v).size === v.length)
       .optional(),
-    note: text('Note', 1000).nullable().optional(),
+    note: paragraphs('Note', 1000).nullable().optional(),
   }),
 );
 

@@ -2,7 +2,7 @@ import * as yup from 'yup';
 import { isValidTimeZone } from '../dates';
 import { isValidQuantity } from '../money';
 import { forageRequestSchema } from './calc';
-import { bool, bothDays, day, int, num, rejectUnknown, text } from './fields';
+import { bool, bothDays, day, int, line, num, paragraphs, rejectUnknown } from './fields';
 import { pageFields, queryNumber } from './paging';
 import { FORAGE_METHODS, forageFigureProblem, MAX_LB_DM_PER_ACRE, measuredLbDmPerAcre, type BlockForageInput, type ForageMethod } from '../grazing/block-forage';
 import { GRAZING_SPECIES, type GrazingSpecies } from '../grazing/flock-intake';
@@ -34,7 +34,7 @@ export const MAX_PAGE_SIZE = 50;
 export const sprayRecordSchema = rejectUnknown(
   yup
     .object({
-      product: text('Product', 120)
+      product: line('Product', 120)
         .min(1, 'Product is required')
         .required('Product is required'),
       appliedOn: day('Date applied').required('Date applied is required'),
@@ -87,14 +87,14 @@ function givesForage(method: ForageMethod) {
 
 export const blockInputSchema = rejectUnknown(
   yup.object({
-    name: text('Name', 120).min(2, 'Name must be at least 2 characters').required('Name is required'),
+    name: line('Name', 120).min(2, 'Name must be at least 2 characters').required('Name is required'),
     crop: yup.string().strict().oneOf([...BLOCK_CROPS], `Crop must be one of: ${BLOCK_CROPS.join(', ')}`).required('Crop is required'),
     acres: num('Acres')
       .moreThan(0, 'Acres must be more than 0')
       .max(100_000, 'Acres must be at most 100 000')
       .test('decimals', 'Acres may have at most 4 decimals', (v) => v === undefined || !(v > 0) || isValidQuantity(v))
       .required('Acres is required'),
-    placeName: text('Place', 120).nullable().optional(),
+    placeName: line('Place', 120).nullable().optional(),
     latitude: num('Latitude').min(-90, 'Latitude must be between -90 and 90').max(90, 'Latitude must be between -90 and 90').required('Latitude is required'),
     longitude: num('Longitude').min(-180, 'Longitude must be between -180 and 180').max(180, 'Longitude must be between -180 and 180').required('Longitude is required'),
     timeZone: yup
@@ -150,7 +150,7 @@ export const blockInputSchema = rejectUnknown(
       .test('unique', 'List each species once', (v) => v === undefined || new Set(v).size === v.length)
       .required('Allow at least one species: sheep or goats'),
     youngPlantings: bool('Young plantings').required('Say whether the block has young trees or vines'),
-    notes: text('Notes', 2000).nullable().optional(),
+    notes: paragraphs('Notes', 2000).nullable().optional(),
   }),
 );
 

@@ -4,7 +4,7 @@ import type { Caution } from '../grazing/safety';
 import type { HeadDaysByDay } from '../grazing/head-days';
 import type { BidTermsView } from './bid';
 import type { BlockSummary, PartyView } from './block';
-import { bool, day, int, num, rejectUnknown, text } from './fields';
+import { bool, day, int, line, num, paragraphs, rejectUnknown } from './fields';
 import { CHARGE_BASES, RATE_PATTERN } from '../money';
 
 // A contract is born when a grower awards a bid: the agreed terms are copied from the bid and the block at
@@ -39,7 +39,7 @@ export const CONTRACT_STATUS_LABELS: Record<ContractStatus, string> = {
 
 export const signContractSchema = rejectUnknown(
   yup.object({
-    typedName: text('Your full name', 120).min(2, 'Type your full name to sign').required('Type your full name to sign'),
+    typedName: line('Your full name', 120).min(2, 'Type your full name to sign').required('Type your full name to sign'),
     /** The signer ticked that they read the cautions shown with the terms. */
     cautionsAcknowledged: bool('Acknowledgement of the cautions').oneOf([true], 'Tick that you have read the cautions').required('Tick that you have read the cautions'),
     /** SHA-256 of the terms text the signer saw: refused (409) when the terms changed meanwhile. */
@@ -65,7 +65,7 @@ export const logEntrySchema = rejectUnknown(
     change: int('Change').min(-20_000, 'Change must be at least −20 000').max(20_000, 'Change must be at most 20 000').test('not-zero', 'Change must not be 0', (v) => v !== 0).optional(),
     /** tally: head counted on the block. */
     count: int('Head counted').min(0, 'Head counted must not be negative').max(20_000, 'Head counted must be at most 20 000').optional(),
-    paddock: text('Paddock or cell', 60).optional().nullable(),
+    paddock: line('Paddock or cell', 60).optional().nullable(),
     residualHeightIn: num('Residual height').min(0, 'Residual height must not be negative').max(60, 'Residual height must be at most 60 in').optional().nullable(),
     takenPct: num('Estimated % taken').min(0, 'Estimated % taken must be 0–100').max(100, 'Estimated % taken must be 0–100').optional().nullable(),
     trampledPct: num('Trampled residue %').min(0, 'Trampled residue % must be 0–100').max(100, 'Trampled residue % must be 0–100').optional().nullable(),
@@ -73,7 +73,7 @@ export const logEntrySchema = rejectUnknown(
     waterChecked: bool('Water checked').optional().nullable(),
     fenceChecked: bool('Fence checked').optional().nullable(),
     losses: int('Losses').min(0, 'Losses must not be negative').max(20_000, 'Losses must be at most 20 000').optional().nullable(),
-    note: text('Note', 2000).optional().nullable(),
+    note: paragraphs('Note', 2000).optional().nullable(),
   }),
 );
 export type LogEntryInput = yup.InferType<typeof logEntrySchema>;
@@ -86,7 +86,7 @@ export const signOffSchema = rejectUnknown(
     action: yup.string().strict().oneOf([...SIGN_OFF_ACTIONS], 'Action must be propose, approve, dispute or accept-counter').required('Action is required'),
     /** dispute: the grower's counter figure. */
     headDays: num('Head-days').min(0, 'Head-days must not be negative').max(100_000_000, 'Head-days is too large').optional(),
-    comment: text('Comment', 2000).optional().nullable(),
+    comment: paragraphs('Comment', 2000).optional().nullable(),
   }),
 );
 export type SignOffInput = yup.InferType<typeof signOffSchema>;
@@ -100,14 +100,14 @@ export const amendmentSchema = rejectUnknown(
     outBy: day('Animals-out-by date').optional(),
     basis: yup.string().strict().oneOf([...CHARGE_BASES], 'Pricing basis must be head-day, acre or flat').optional(),
     rate: yup.string().strict().matches(RATE_PATTERN, 'Rate must be a dollar amount like 0.18, with at most 6 decimals').optional(),
-    reason: text('Reason', 1000).min(3, 'Say why the terms change').required('Say why the terms change'),
+    reason: paragraphs('Reason', 1000).min(3, 'Say why the terms change').required('Say why the terms change'),
   }),
 );
 export type AmendmentInput = yup.InferType<typeof amendmentSchema>;
 
 export const cancelContractSchema = rejectUnknown(
   yup.object({
-    reason: text('Reason', 1000).min(3, 'Say why the contract is cancelled').required('Say why the contract is cancelled'),
+    reason: paragraphs('Reason', 1000).min(3, 'Say why the contract is cancelled').required('Say why the contract is cancelled'),
   }),
 );
 export type CancelContractInput = yup.InferType<typeof cancelContractSchema>;

@@ -2,6 +2,22 @@ import fs from 'node:fs';
 import path from 'node:path';
 import crypto from 'node:crypto';
 import * as yup from 'yup';
+import addressparser from 'nodemailer/lib/addressparser';
+
+export const DEFAULT_MAIL_FROM = 'Fieldfold <no-reply@fieldfold.localhost>';
+
+function port(name: string) {
+  return yup.number().typeError(`${name} must be a port number`).integer(`${name} must be a whole number`).min(1, `${name} must be from 1 to 65535`).max(65535, `${name} must be from 1 to 65535`);
+}
+
+/** One mailbox, no group, no control characters; null otherwise. */
+function parseFrom(value: string): { name: string; address: string } | null {
+  if (/[\u0000-\u001f\u007f-\u009f\u2028\u2029]/.test(value)) return null;
+  const list = addressparser(value);
+  const one = list.length === 1 ? list[0] : null;
+  if (!one || one.group || !/^[^\s@]+@[^\s@]+$/.test(one.address)) return null;
+  return { name: one.name, address: one.address };
+}
 
 // Read once at boot; a bad value stops the process with a sentence naming the variable.
 const envSchema = yup.object({
@@ -15,6 +31,14 @@ const envSchema = yup.object({
   SEED_DEMO: yup.string().oneOf(['true', 'false'], 'SEED_DEMO must be true or false').default('true'),
   NODE_ENV: yup.string().default('development'),
   CORS_ORIGIN: yup.string().url('CORS_ORIGIN must be an origin like http://localhost:8081'),
+  // Mail goes over SMTP when SMTP_PORT is set (npm start sets it to the local sink); otherwise it stays in memory.
+  SMTP_HOST: yup.string().matches(/^[A-Za-z0-9.:-]+$/, 'SMTP_HOST must be a host name or IP address').default('127.0.0.1'),
+  SMTP_PORT: port('SMTP_PORT'),
+  MAIL_FROM: yup
+    .string()
+    .test('one-address', 'MAIL_FROM must be one address like "Fieldfold <no-reply@example.com>"', (v) => v === undefined || parseFrom(v) !== null)
+    .default(DEFAULT_MAIL_FROM),
+  MAIL_UI_PORT: port('MAIL_UI_PORT'),
 });
 
 export interface Config {
@@ -30,6 +54,11 @@ export interface Config {
   production: boolean;
   /** Only the Expo dev server needs it (npm run dev); production serves app and API from one origin. */
   corsOrigin: string | null;
+  /** Where mail goes over SMTP; null keeps it in memory (tests, `npm run dev`). */
+  smtp: { host: string; port: number } | null;
+  mailFrom: { name: string; address: string };
+  /** The local mail sink's inbox page (npm start sets it), named in the start-up line; null elsewhere. */
+  mailUiPort: number | null;
 }
 
 export class ConfigError extends Error {}
@@ -59,6 +88,9 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, root = process.
     seedDemo: parsed.SEED_DEMO === 'true',
     production: parsed.NODE_ENV === 'production',
     corsOrigin: parsed.CORS_ORIGIN ?? null,
+    smtp: parsed.SMTP_PORT === undefined ? null : { host: parsed.SMTP_HOST, port: parsed.SMTP_PORT },
+    mailFrom: parseFrom(parsed.MAIL_FROM)!,
+    mailUiPort: parsed.MAIL_UI_PORT ?? null,
   };
 }
 

@@ -6,16 +6,26 @@ import { BlockPhoto } from '../modules/blocks/block-photo.entity';
 import { Bid } from '../modules/bids/bid.entity';
 import { Contract } from '../modules/contracts/contract.entity';
 import { OutboxMessage } from '../lib/mail/outbox.entity';
+import { Document } from '../modules/documents/document.entity';
 import { Accounts1764600000000 } from './migrations/1764600000000-accounts';
 import { Blocks1764700000000 } from './migrations/1764700000000-blocks';
 import { Bids1764700100000 } from './migrations/1764700100000-bids';
 import { Contracts1764700200000 } from './migrations/1764700200000-contracts';
 import { MailOutbox1765000000000 } from './migrations/1765000000000-mail-outbox';
+import { Documents1765200000000 } from './migrations/1765200000000-documents';
 import { MarketFigures1765400000000 } from './migrations/1765400000000-market-figures';
 import { registerSqlFunctions } from './sql-functions';
 
-export const entities = [Account, Session, Block, BlockPhoto, Bid, Contract, OutboxMessage];
-export const migrations = [Accounts1764600000000, Blocks1764700000000, Bids1764700100000, Contracts1764700200000, MailOutbox1765000000000, MarketFigures1765400000000];
+export const entities = [Account, Session, Block, BlockPhoto, Bid, Contract, OutboxMessage, Document];
+export const migrations = [
+  Accounts1764600000000,
+  Blocks1764700000000,
+  Bids1764700100000,
+  Contracts1764700200000,
+  MailOutbox1765000000000,
+  Documents1765200000000,
+  MarketFigures1765400000000,
+];
 
 /** `database` is a file path, or ':memory:' for tests. Migrations only; never synchronize. */
 export function createDataSource(database: string): DataSource {

@@ -2,6 +2,8 @@ import type { DataSource } from 'typeorm';
 import type { MailOutbox } from './mail/outbox';
 import type { AppLinks } from './mail/links';
 import type { PhotoStore } from './storage/photo-store';
+import type { FileStore } from './storage/file-store';
+import type { PdfRenderer } from './pdf/pdf-renderer';
 
 /**
  * What the business modules need from the outside world, built once by createApp from AppDeps. Every hosted
@@ -18,6 +20,10 @@ export interface ServiceContext {
   now: () => number;
   log: (msg: string) => void;
   photos: PhotoStore;
+  /** Generated files (PDF records) by key, under DATA_DIR/documents; see modules/documents. */
+  documents: FileStore;
+  /** Renders the grazing-log and invoice PDFs; call it outside write transactions. */
+  pdf: PdfRenderer;
   /** Signs the short-lived photo access tokens (the sign-in secret; tokens carry their own `typ`). */
   tokenSecret: string;
 }
