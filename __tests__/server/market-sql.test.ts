@@ -1,6 +1,10 @@
 import fc from 'fast-check';
+import { DataSource } from 'typeorm';
 import { makeTestApp, TEST_NOW } from '../helpers/test-app';
 import { seedSeasonBlocks, seedSeasonPeople, type SeasonPeople } from '../helpers/market-season';
+import { market } from '../helpers/market';
+import { migrations } from '../../server/db/data-source';
+import { MarketFigures1765400000000 } from '../../server/db/migrations/1765400000000-market-figures';
 import { AppError } from '../../server/lib/errors/app-error';
 import { check } from '../../server/lib/http/validate';
 import { hasRole } from '../../server/lib/http/auth';
@@ -9,7 +13,7 @@ import type { Account } from '../../server/modules/accounts/account.entity';
 import { Block } from '../../server/modules/blocks/block.entity';
 import { blockViews, flockOf, homeOf } from '../../server/modules/blocks/block-views';
 import { listBlocks } from '../../server/modules/blocks/blocks.service';
-import { capacity, daysForHead } from '../../lib/grazing/capacity';
+import { allowableForage, capacity, daysForHead } from '../../lib/grazing/capacity';
 import { intakeForFlock } from '../../lib/grazing/flock-intake';
 import { grazeSpan, type GrazeSpan } from '../../lib/grazing/graze-window';
 import { distanceMiles } from '../../lib/geo';
@@ -266,5 +270,129 @@ describe('GET /api/blocks in SQL gives what the in-memory market gave', () => {
     expect(count(open.map((b) => b.name))).toBeGreaterThan(50);
     expect(open.some((b) => b.longitude > 179) && open.some((b) => b.longitude < -179)).toBe(true);
     expect(open.some((b) => grazeSpan(b).from >= grazeSpan(b).until)).toBe(true);
+  });
+});
+
+// ——— stored figures, the plans SQLite picks, the migration that fills the figures ———
+
+describe('the figures the market filters on are stored, and are lib\'s', () => {
+  it('When blocks are saved, then graze_from/graze_until are grazeSpan and allowable_lb is allowableForage, to the last bit', async () => {
+    const stored = await t.dataSource.getRepository(Block).find();
+    expect(stored.length).toBe(blocks.length);
+    for (const b of stored) {
+      const span = grazeSpan(b);
+      expect([b.grazeFrom, b.grazeUntil]).toEqual([span.from, span.until]);
+      expect(b.allowableLb).toBe(allowableForage({ acres: b.acres, lbDmPerAcre: b.lbDmPerAcre, utilizationPct: b.targetUtilizationPct }).allowableLb);
+      // And days of feed in SQL equal lib's capacity → daysForHead for a flock.
+      const [{ days }] = await t.dataSource.query('SELECT ((allowable_lb / ?) / ?) AS days FROM blocks WHERE id = ?', [3.75, 600, b.id]);
+      const headDays = capacity({ acres: b.acres, lbDmPerAcre: b.lbDmPerAcre, utilizationPct: b.targetUtilizationPct, animal: { bodyWeightLb: 150, intakePctBodyWeight: 2.5 } }).headDays;
+      expect(days).toBe(daysForHead(headDays, 600));
+    }
+  });
+
+  it('When a grower changes acres, forage or a spray record, then the stored figures follow', async () => {
+    const m = market(t);
+    const g = await m.grower();
+    const b = await m.draft(g, { acres: 80, lbDmPerAcre: 2000, targetUtilizationPct: 45 });
+    const patch = await m.api().patch(`/api/blocks/${b.id}`).set(g.auth).send({ acres: 12.5, lbDmPerAcre: 1500, sprayRecords: [{ product: 'Invented copper', appliedOn: '2027-01-01', grazingRestrictionDays: 10, containsCopper: true }] });
+    expect(patch.status).toBe(200);
+    const row = await t.dataSource.getRepository(Block).findOneByOrFail({ id: b.id });
+    expect(row.allowableLb).toBe(allowableForage({ acres: 12.5, lbDmPerAcre: 1500, utilizationPct: 45 }).allowableLb);
+    expect([row.grazeFrom, row.grazeUntil]).toEqual(['2027-01-11', '2027-03-01']);
+  });
+});
+
+describe('block views on a list page', () => {
+  it('When owners and graziers list the season, then each block\'s live-bid count (owner) and my live bid (grazier) match the bids table', async () => {
+    const live: Array<{ id: string; block_id: string; grazier_id: string }> = await t.dataSource.query(`SELECT id, block_id, grazier_id FROM bids WHERE status = 'live'`);
+    expect(live.length).toBeGreaterThan(10);
+    let seen = 0;
+    for (const viewer of people.viewers) {
+      const listed = await listBlocks(ctx, viewer, { view: hasRole(viewer, 'grower') && viewer.activeRole !== 'grazier' ? 'mine' : 'market', pageSize: '50' });
+      for (const v of listed.items) {
+        const onBlock = live.filter((b) => b.block_id === v.id);
+        if (v.viewer.isOwner) expect(v.liveBidCount).toBe(onBlock.length);
+        else expect(v.liveBidCount).toBeNull();
+        expect(v.viewer.myLiveBidId).toBe(onBlock.find((b) => b.grazier_id === viewer.id)?.id ?? null);
+        if (v.viewer.myLiveBidId || (v.liveBidCount ?? 0) > 0) seen += 1;
+      }
+    }
+    expect(seen).toBeGreaterThan(0);
+  });
+});
+
+describe('the market\'s SQL uses its indexes (EXPLAIN QUERY PLAN)', () => {
+  /** Every SELECT one listBlocks call runs, with the plan SQLite picks for it. */
+  async function plans(viewer: Account, query: Record<string, string>) {
+    const statements: Array<[string, unknown[]]> = [];
+    const ds = t.dataSource as unknown as { logger: { logQuery: (q: string, p?: unknown[]) => void } };
+    const logger = ds.logger;
+    ds.logger = Object.assign(Object.create(logger), { logQuery: (q: string, p?: unknown[]) => statements.push([q, p ?? []]) });
+    try {
+      await listBlocks(ctx, viewer, query);
+    } finally {
+      ds.logger = logger;
+    }
+    const out = [];
+    for (const [sql, params] of statements.filter(([s]) => /^\s*SELECT/i.test(s))) {
+      const rows: Array<{ detail: string }> = await t.dataSource.query(`EXPLAIN QUERY PLAN ${sql}`, params);
+      out.push({ sql, plan: rows.map((r) => r.detail).join(' | ') });
+    }
+    return out;
+  }
+
+  it('When the market is listed with or without filters, in every order, then no query scans a table: each searches an index, and the count reads a covering index alone', async () => {
+    const grazier = people.viewers[0];
+    const shapes: Array<Record<string, string>> = [
+      { view: 'market' },
+      { view: 'market', sort: 'window', page: '3' },
+      { view: 'market', sort: 'acres', minAcres: '20' },
+      { view: 'market', sort: 'days', minDays: '3', species: 'sheep' },
+      { view: 'market', sort: 'newest', from: '2027-01-04', to: '2027-03-01' },
+      { view: 'market', maxMiles: '150', minAcres: '20', species: 'sheep', minDays: '2', from: '2026-12-20', sort: 'days' },
+    ];
+    for (const query of shapes) {
+      const found = await plans(grazier, query);
+      expect(found.length).toBeGreaterThanOrEqual(4);
+      for (const { sql, plan } of found) {
+        expect({ sql, plan }).toEqual({ sql, plan: expect.stringMatching(/SEARCH \S+ USING (COVERING )?INDEX/) });
+        expect({ sql, plan }).toEqual({ sql, plan: expect.not.stringMatching(/(^|\| )SCAN /) });
+      }
+      const count = found.find((x) => /COUNT\(\*\)/.test(x.sql) && /FROM "blocks"/.test(x.sql))!;
+      expect(count.plan).toMatch(/USING COVERING INDEX idx_blocks_market_\w+/);
+    }
+  });
+
+  it('When a grower lists their own blocks, then the owner index serves it', async () => {
+    const found = await plans(people.growers[0], { view: 'mine' });
+    for (const { plan } of found) expect(plan).not.toMatch(/(^|\| )SCAN /);
+    expect(found.some((x) => /idx_blocks_owner_created/.test(x.plan))).toBe(true);
+  });
+});
+
+describe('migration 1765400000000 fills the figures of blocks stored before it', () => {
+  it('When it runs over existing blocks, then each gets lib\'s graze span and allowable take; down() takes the columns away again', async () => {
+    const ds = new DataSource({ type: 'better-sqlite3', database: ':memory:', migrations: migrations.filter((mg) => mg !== MarketFigures1765400000000), synchronize: false });
+    await ds.initialize();
+    try {
+      await ds.runMigrations();
+      await ds.query(`INSERT INTO accounts (id, email, password_hash, name, roles) VALUES ('a1', 'old@test.example', 'x', 'Old grower', 'grower')`);
+      const spray = JSON.stringify([{ product: 'Invented fungicide', appliedOn: '2027-01-02', grazingRestrictionDays: 14, containsCopper: false }]);
+      await ds.query(
+        `INSERT INTO blocks (id, owner_id, status, name, crop, acres, latitude, longitude, time_zone, forage_method, lb_dm_per_acre, target_utilization_pct, window_start, window_end, out_by, spray_records, water_on_site, perimeter_fence, truck_access, species_allowed, young_plantings)
+         VALUES ('b1', 'a1', 'open', 'Old block', 'orchard', 36.5, 39.7, -121.9, 'America/Los_Angeles', 'direct', 2100, 45, '2027-01-04', '2027-03-05', '2027-03-01', ?, 1, 'full', 1, 'sheep', 0)`,
+        [spray],
+      );
+      const runner = ds.createQueryRunner();
+      await new MarketFigures1765400000000().up(runner);
+      const [row] = await ds.query('SELECT graze_from, graze_until, allowable_lb FROM blocks');
+      expect(row).toEqual({ graze_from: '2027-01-16', graze_until: '2027-03-01', allowable_lb: allowableForage({ acres: 36.5, lbDmPerAcre: 2100, utilizationPct: 45 }).allowableLb });
+      await new MarketFigures1765400000000().down(runner);
+      const columns: Array<{ name: string }> = await ds.query(`PRAGMA table_info('blocks')`);
+      expect(columns.map((c) => c.name)).not.toContain('allowable_lb');
+      await runner.release();
+    } finally {
+      await ds.destroy();
+    }
   });
 });

@@ -57,6 +57,40 @@ async function alone(n, fn) {
   return percentiles(times);
 }
 
+// ——— the same statements, straight on SQLite ———
+
+/**
+ * The SQL one call of a service makes, captured through TypeORM's logger in this process (the same compiled
+ * service code the server runs, on the same database file), so "raw" replays exactly the server's queries.
+ */
+async function capturedStatements(ds, call) {
+  const statements = [];
+  const logger = ds.logger;
+  ds.logger = { ...logger, logQuery: (query, parameters) => statements.push([query, parameters ?? []]), logQueryError() {}, logQuerySlow() {}, logSchemaBuild() {}, logMigration() {}, log() {} };
+  try {
+    await call();
+  } finally {
+    ds.logger = logger;
+  }
+  return statements;
+}
+
+/** p50 of replaying `statements` with better-sqlite3 directly (prepared once, as TypeORM's statement cache does). */
+function replay(db, statements, n = 300) {
+  const prepared = statements.map(([sql, params]) => [db.prepare(sql), params]);
+  const run = () => {
+    for (const [stmt, params] of prepared) stmt.reader ? stmt.all(...params) : stmt.run(...params);
+  };
+  run();
+  const times = [];
+  for (let i = 0; i < n; i++) {
+    const s = performance.now();
+    run();
+    times.push(performance.now() - s);
+  }
+  return percentiles(times);
+}
+
 // ——— the season ———
 
 function dayKey(ms) {
@@ -294,7 +328,8 @@ export async function benchLoad(row) {
   let server;
   try {
     const s0 = performance.now();
-    const season = await seedSeason(path.join(dataDir, 'fieldfold.sqlite'), today);
+    const dbFile = path.join(dataDir, 'fieldfold.sqlite');
+    const season = await seedSeason(dbFile, today);
     row('season seeded (straight into SQLite)', `${season.counts.openBlocks.toLocaleString('en-US')} open blocks, ${season.counts.bids.toLocaleString('en-US')} bids, ${season.counts.contracts.toLocaleString('en-US')} contracts in ${((performance.now() - s0) / 1000).toFixed(1)} s`);
 
     const port = await freePort();
@@ -308,28 +343,72 @@ export async function benchLoad(row) {
     const grazier = await login('grazier@bench.example');
     const grower = await login('grower@bench.example');
 
+    // The server's own service code in this process, on the same file, to capture each request's SQL.
+    const { openDatabase } = require(path.join(root, 'build/server/db/data-source.js'));
+    const { registerSqlFunctions } = require(path.join(root, 'build/server/db/sql-functions.js'));
+    const { listBlocks } = require(path.join(root, 'build/server/modules/blocks/blocks.service.js'));
+    const { listBlockBids } = require(path.join(root, 'build/server/modules/bids/bids.service.js'));
+    const { Account } = require(path.join(root, 'build/server/modules/accounts/account.entity.js'));
+    const Database = require('better-sqlite3');
+    const ds = await openDatabase(dbFile);
+    const raw = new Database(dbFile, { readonly: true });
+    registerSqlFunctions(raw);
+    const ctx = { ds, now: Date.now, tokenSecret: 'bench-only-secret-long-enough-to-sign', log: () => {}, links: null, outbox: null, photos: null };
+    const account = (email) => ds.getRepository(Account).findOneByOrFail({ email });
+    const [grazierAccount, growerAccount] = [await account('grazier@bench.example'), await account('grower@bench.example')];
+
+    const filters = { view: 'market', maxMiles: '150', minAcres: '20', species: 'sheep', minDays: '2', from: today, sort: 'days' };
     const reads = [
-      { label: 'market, no filters (nearest first)', path: '/api/blocks?view=market', headers: grazier },
-      { label: 'market, filtered (150 mi, acres, sheep, days, dates; most days first)', path: `/api/blocks?view=market&maxMiles=150&minAcres=20&species=sheep&minDays=2&from=${today}&sort=days`, headers: grazier },
-      { label: "a block's bids, compared (grower, 40 bids)", path: `/api/blocks/${season.bidBlock.id}/bids`, headers: grower },
+      { label: 'market, no filters (nearest first)', query: { view: 'market' }, headers: grazier, call: (q) => listBlocks(ctx, grazierAccount, q) },
+      { label: 'market, filtered (150 mi, acres, sheep, days, dates)', query: filters, headers: grazier, call: (q) => listBlocks(ctx, grazierAccount, q) },
+      {
+        label: "a block's bids, compared (grower, 40 bids)",
+        path: `/api/blocks/${season.bidBlock.id}/bids`,
+        query: {},
+        headers: grower,
+        call: (q) => listBlockBids(ctx, growerAccount, season.bidBlock.id, q),
+      },
     ];
-    for (const read of reads) {
-      const check = await fetch(base + read.path, { headers: read.headers });
-      if (!check.ok) throw new Error(`${read.path}: ${check.status} ${await check.text()}`);
-      await check.arrayBuffer();
-      const one = await alone(100, async () => {
-        const res = await fetch(base + read.path, { headers: read.headers });
-        await res.arrayBuffer();
-      });
-      const load = await cannon({ url: base + read.path, headers: read.headers });
-      row(`${read.label}, alone`, `p50 ${ms(one.p50)} · p95 ${ms(one.p95)}`);
-      budget(`${read.label}, ${CONNECTIONS} conn`, `${load.rps.toFixed(0)} req/s · p50 ${ms(load.p50)} · p95 ${ms(load.p95)} · p99 ${ms(load.p99)}${load.bad ? ` · ${load.bad} failed` : ''}`, load.p95 < BUDGETS.readP95Ms && load.bad === 0, `p95 < ${BUDGETS.readP95Ms} ms`);
+    try {
+      for (const read of reads) {
+        const url = `${base}${read.path ?? '/api/blocks'}?${new URLSearchParams(read.query)}`;
+        const check = await fetch(url, { headers: read.headers });
+        if (!check.ok) throw new Error(`${url}: ${check.status} ${await check.text()}`);
+        await check.arrayBuffer();
+        const one = await alone(150, async () => {
+          const res = await fetch(url, { headers: read.headers });
+          await res.arrayBuffer();
+        });
+        const load = await cannon({ url, headers: read.headers });
+        budget(
+          `${read.label}, ${CONNECTIONS} conn`,
+          `${load.rps.toFixed(0)} req/s · p50 ${ms(load.p50)} · p95 ${ms(load.p95)} · p99 ${ms(load.p99)}${load.bad ? ` · ${load.bad} failed` : ''}`,
+          load.p95 < BUDGETS.readP95Ms && load.bad === 0,
+          `p95 < ${BUDGETS.readP95Ms} ms`,
+        );
+        const statements = await capturedStatements(ds, () => read.call({ ...read.query }));
+        const sql = replay(raw, statements);
+        const ratio = one.p50 / sql.p50;
+        budget(
+          `  alone vs the same ${statements.length} SQL statements on SQLite`,
+          `server p50 ${ms(one.p50)} · SQL p50 ${ms(sql.p50)} · ${ratio.toFixed(1)}×`,
+          ratio < BUDGETS.ormOverRaw,
+          `ORM over raw < ${BUDGETS.ormOverRaw}×`,
+        );
+      }
+    } finally {
+      raw.close();
+      await ds.destroy();
     }
     row("a contract's log with running totals", season.logTable.length ? `not measured: log table ${season.logTable.join(', ')} has no seeder here yet` : 'not measured: no log table yet');
     row('invoice list', 'not measured: no invoices yet');
 
     // A write while the market is under load: a grower posting a block draft (the log POST once the log exists).
-    const marketLoad = cannon({ url: `${base}/api/blocks?view=market`, headers: grazier, duration: DURATION_S });
+    // Posts go one at a time, 50 ms apart, only while the market load runs.
+    let loading = true;
+    const marketLoad = cannon({ url: `${base}/api/blocks?view=market`, headers: grazier }).finally(() => {
+      loading = false;
+    });
     await new Promise((r) => setTimeout(r, 1000));
     const blockBody = JSON.stringify({
       name: 'Posted under load',
@@ -349,12 +428,16 @@ export async function benchLoad(row) {
       speciesAllowed: ['sheep'],
       youngPlantings: false,
     });
-    const posts = await alone(60, async () => {
+    const postTimes = [];
+    while (loading && postTimes.length < 400) {
+      const s = performance.now();
       const res = await fetch(`${base}/api/blocks`, { method: 'POST', headers: { ...grower, 'content-type': 'application/json' }, body: blockBody });
       if (res.status !== 201) throw new Error(`block POST under load: ${res.status} ${await res.text()}`);
       await res.arrayBuffer();
+      if (loading) postTimes.push(performance.now() - s);
       await new Promise((r) => setTimeout(r, 50));
-    });
+    }
+    const posts = percentiles(postTimes);
     const loaded = await marketLoad;
     budget(`block POST while the market takes ${CONNECTIONS} conn`, `p50 ${ms(posts.p50)} · p95 ${ms(posts.p95)} · p99 ${ms(posts.p99)} (n=${posts.n}; market meanwhile ${loaded.rps.toFixed(0)} req/s, p95 ${ms(loaded.p95)})`, posts.p95 < BUDGETS.writeUnderLoadP95Ms, `p95 < ${BUDGETS.writeUnderLoadP95Ms} ms`);
     row('log entry POST while the market is loaded', 'not measured: no log table yet');

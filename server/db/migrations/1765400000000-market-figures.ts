@@ -8,9 +8,28 @@ import type { SprayRecord } from '../../../lib/grazing/safety';
 //   graze_from / graze_until  the days animals may be on (lib/grazing/graze-window grazeSpan)
 //   allowable_lb              acres × lb DM/ac × utilisation (lib/grazing/capacity allowableForage): days of
 //                             feed for a flock = allowable ÷ (head × intake), an expression on an indexed column
-// Each market index leads with status, then the column one sort walks in order or one filter ranges over.
-/** The columns a market filter tests besides status, the last day and the place. */
-const FILTERED = '"owner_id", "time_zone", "graze_from", "acres", "allowable_lb", "species_allowed"';
+
+/** Every column a market filter tests (besides status). */
+const FILTERED = ['graze_until', 'owner_id', 'time_zone', 'graze_from', 'acres', 'allowable_lb', 'species_allowed', 'latitude', 'longitude'];
+
+/**
+ * The market's indexes: status, then the column one sort walks or one filter ranges over, then every other
+ * filtered column — so the count and the page's keys are read from the index alone, whichever SQLite picks.
+ */
+const MARKET_INDEXES: Record<string, string[]> = {
+  until: ['graze_until'],
+  place: ['latitude', 'longitude'],
+  from: ['graze_from'],
+  acres: ['acres'],
+  allowable: ['allowable_lb'],
+  created: ['created_at'],
+};
+
+function marketIndex(name: string): string {
+  const lead = MARKET_INDEXES[name];
+  const columns = ['status', ...lead, ...FILTERED.filter((c) => !lead.includes(c))].map((c) => `"${c}"`);
+  return `CREATE INDEX "idx_blocks_market_${name}" ON "blocks" (${columns.join(', ')})`;
+}
 
 export class MarketFigures1765400000000 implements MigrationInterface {
   name = 'MarketFigures1765400000000';
@@ -37,15 +56,7 @@ export class MarketFigures1765400000000 implements MigrationInterface {
 
     await q.query(`DROP INDEX "idx_blocks_status"`);
     await q.query(`DROP INDEX "idx_blocks_owner"`);
-    // Counting the market reads one of these two alone (no row lookups): every column a market filter tests
-    // is in both. The first leads with the last day (every market query ranges over it), the second with the
-    // place (a distance filter ranges over latitude first).
-    await q.query(`CREATE INDEX "idx_blocks_market_until" ON "blocks" ("status", "graze_until", ${FILTERED}, "latitude", "longitude")`);
-    await q.query(`CREATE INDEX "idx_blocks_market_place" ON "blocks" ("status", "latitude", "longitude", "graze_until", ${FILTERED})`);
-    await q.query(`CREATE INDEX "idx_blocks_market_from" ON "blocks" ("status", "graze_from")`);
-    await q.query(`CREATE INDEX "idx_blocks_market_acres" ON "blocks" ("status", "acres")`);
-    await q.query(`CREATE INDEX "idx_blocks_market_allowable" ON "blocks" ("status", "allowable_lb")`);
-    await q.query(`CREATE INDEX "idx_blocks_market_created" ON "blocks" ("status", "created_at")`);
+    for (const name of Object.keys(MARKET_INDEXES)) await q.query(marketIndex(name));
     await q.query(`CREATE INDEX "idx_blocks_owner_created" ON "blocks" ("owner_id", "created_at")`);
 
     // A block's bids and a grazier's bids, in the order they are listed.
@@ -60,7 +71,7 @@ export class MarketFigures1765400000000 implements MigrationInterface {
     await q.query(`DROP INDEX "idx_bids_block_created"`);
     await q.query(`CREATE INDEX "idx_bids_block" ON "bids" ("block_id")`);
     await q.query(`CREATE INDEX "idx_bids_grazier" ON "bids" ("grazier_id")`);
-    for (const name of ['until', 'from', 'acres', 'allowable', 'created', 'place']) await q.query(`DROP INDEX "idx_blocks_market_${name}"`);
+    for (const name of Object.keys(MARKET_INDEXES)) await q.query(`DROP INDEX "idx_blocks_market_${name}"`);
     await q.query(`DROP INDEX "idx_blocks_owner_created"`);
     await q.query(`CREATE INDEX "idx_blocks_owner" ON "blocks" ("owner_id")`);
     await q.query(`CREATE INDEX "idx_blocks_status" ON "blocks" ("status")`);
