@@ -57,8 +57,9 @@ async function daysLeftCondition(ds: DataSource, nowMs: number): Promise<{ sql: 
     .andWhere('b.graze_until >= :utc AND b.graze_until <= :next', { utc, next })
     .getRawMany();
   // A block is in while its last day is after today at the block.
-  const lastDayTomorrow = rows.filter((r) => todayIn(r.tz, nowMs) < next).map((r) => r.tz);
-  const lastDayToday = rows.filter((r) => todayIn(r.tz, nowMs) < utc).map((r) => r.tz);
+  const zones = rows.map((r) => ({ tz: r.tz, today: todayIn(r.tz, nowMs) }));
+  const lastDayTomorrow = zones.filter((z) => z.today < next).map((z) => z.tz);
+  const lastDayToday = zones.filter((z) => z.today < utc).map((z) => z.tz);
   const parts = ['b.graze_until > :dlNext'];
   if (lastDayTomorrow.length) parts.push('(b.graze_until = :dlNext AND b.time_zone IN (:...dlTomorrow))');
   if (lastDayToday.length) parts.push('(b.graze_until = :dlUtc AND b.time_zone IN (:...dlToday))');
