@@ -131,16 +131,15 @@ export async function getBid(ctx: ServiceContext, viewer: Account, bidId: string
 }
 
 /** The page of `bids` a list query asks for, oldest or newest first, and how many there are. */
-async function bidPage(ctx: ServiceContext, where: Record<string, unknown>, q: BidListQuery, newestFirst: boolean): Promise<Page<BidView>> {
+async function bidPage(ctx: ServiceContext, where: Record<string, unknown>, q: BidListQuery, newestFirst: boolean, block?: Block): Promise<Page<BidView>> {
   const page = q.page ?? 1;
   const pageSize = q.pageSize ?? DEFAULT_BID_PAGE_SIZE;
   const em = ctx.ds.manager;
   const filter = { ...where, ...(q.status ? { status: q.status } : {}) };
-  const [bids, total] = await Promise.all([
-    em.find(Bid, { where: filter, order: { createdAt: newestFirst ? 'DESC' : 'ASC', id: 'ASC' }, skip: (page - 1) * pageSize, take: pageSize }),
-    em.countBy(Bid, filter),
-  ]);
-  return { items: await bidViews(em, bids), total, page, pageSize };
+  const bids = await em.find(Bid, { where: filter, order: { createdAt: newestFirst ? 'DESC' : 'ASC', id: 'ASC' }, skip: (page - 1) * pageSize, take: pageSize });
+  // A first page that is not full holds them all: no count needed.
+  const total = page === 1 && bids.length < pageSize ? bids.length : await em.countBy(Bid, filter);
+  return { items: await bidViews(em, bids, block ? [block] : []), total, page, pageSize };
 }
 
 /**
@@ -153,8 +152,8 @@ export async function listBlockBids(ctx: ServiceContext, viewer: Account, blockI
   const em = ctx.ds.manager;
   const block = await em.findOneBy(Block, { id: blockId });
   if (!block) throw AppError.notFound('Block');
-  if (isOwner(viewer, block)) return bidPage(ctx, { blockId }, q, false);
-  const own = await bidPage(ctx, { blockId, grazierId: viewer.id }, q, false);
+  if (isOwner(viewer, block)) return bidPage(ctx, { blockId }, q, false, block);
+  const own = await bidPage(ctx, { blockId, grazierId: viewer.id }, q, false, block);
   if (own.total === 0 && !canViewBlock(viewer, block, await blockFacts(em, viewer, block)) && !(await em.existsBy(Bid, { blockId, grazierId: viewer.id }))) {
     throw AppError.notFound('Block');
   }
