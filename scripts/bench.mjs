@@ -6,6 +6,7 @@ import path from 'node:path';
 import zlib from 'node:zlib';
 import { performance } from 'node:perf_hooks';
 import { buildServer, buildWeb, ensureDependencies, freePort, root, startServer } from './lib.mjs';
+import { benchLoad } from './bench/load.mjs';
 
 ensureDependencies();
 buildWeb();
@@ -92,3 +93,6 @@ try {
 await new Promise((r) => setTimeout(r, 500));
 const dbSize = ['fieldfold.sqlite', 'fieldfold.sqlite-wal'].map((f) => path.join(dataDir, f)).filter((f) => fs.existsSync(f)).reduce((s, f) => s + fs.statSync(f).size, 0);
 row('demo database on disk (db + WAL)', `${dbSize.toLocaleString('en-US')} B`);
+
+// The season at scale against budgets (scripts/bench/load.mjs): a missed budget makes the run exit non-zero.
+if ((await benchLoad(row)) > 0) process.exitCode = 1;

@@ -3,6 +3,7 @@ import multer from 'multer';
 import { AppError } from '../../lib/errors/app-error';
 import { requireAuth, requireRole, signedIn } from '../../lib/http/auth';
 import { param } from '../../lib/http/params';
+import { heavyReads } from '../../lib/http/read-lane';
 import type { ServiceContext } from '../../lib/service-context';
 import { createBlock, getBlock, listBlocks, publishBlock, updateBlock, withdrawBlock } from './blocks.service';
 import { addPhoto, assertCanAddPhoto, deletePhoto, openPhoto } from './block-photos.service';
@@ -34,8 +35,9 @@ export function blocksRouter(ctx: ServiceContext): Router {
     res.status(201).json({ block: await createBlock(ctx, signedIn(req), req.body) });
   });
 
+  // The market is the heaviest read: it takes its turn in the read lane so writes never queue behind searches.
   router.get('/blocks', auth, async (req, res) => {
-    res.json(await listBlocks(ctx, signedIn(req), { ...req.query }));
+    res.json(await heavyReads.run(() => listBlocks(ctx, signedIn(req), { ...req.query })));
   });
 
   router.get('/blocks/:id', auth, async (req, res) => {
