@@ -219,11 +219,15 @@ describe('The grazier side of the market', () => {
     await expect(page.getByTestId('contract-total').filter({ visible: true }).textContent()).resolves.toBe(cents(bid.normalised.estimatedTotalCents));
     expect(bid.normalised.estimatedTotalCents).toBe(75_000);
     await expect(page.getByTestId('contract-rate').filter({ visible: true }).textContent()).resolves.toBe('$30.00 per acre');
-    await page.getByText('Kellner Range Sheep (Wade Kellner) — you').filter({ visible: true }).waitFor();
+    const grazierSide = page.getByTestId('signature-grazier').filter({ visible: true });
+    await grazierSide.getByText('Grazier — you').waitFor();
+    await grazierSide.getByText('Kellner Range Sheep (Wade Kellner)').waitFor();
     await screenshot(page, 'market-contract-390');
 
     await page.setViewportSize(WIDE);
-    await page.getByText('Kellner Range Sheep (Wade Kellner) — you').filter({ visible: true }).waitFor();
+    const grazierSide = page.getByTestId('signature-grazier').filter({ visible: true });
+    await grazierSide.getByText('Grazier — you').waitFor();
+    await grazierSide.getByText('Kellner Range Sheep (Wade Kellner)').waitFor();
     await screenshot(page, 'market-contract-1280');
   });
 });

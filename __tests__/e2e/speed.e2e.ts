@@ -130,7 +130,7 @@ describe('Phone speed and the offline shell', () => {
     expect(offline?.fromServiceWorker()).toBe(true);
     // The worker tried the network first, which failed; the answer is the precached HTML of /blocks/[blockId].
     expect(failedOffline).toContain(`/blocks/${block.id}`);
-    await b.page.getByRole('progressbar', { name: 'Opening your Fieldfold…' }).waitFor();
+    // The account kept on the device restores the session with no network, so the signed-in frame shows at once.
     await b.page.getByLabel('Fieldfold', { exact: true }).first().waitFor();
     expect(await b.page.evaluate("fetch('/api/health').then(() => 'answered', () => 'no network')")).toBe('no network');
     await screenshot(b.page, 'offline-block-frame-390');
