@@ -225,9 +225,9 @@ describe('The grazier side of the market', () => {
     await screenshot(page, 'market-contract-390');
 
     await page.setViewportSize(WIDE);
-    const grazierSide = page.getByTestId('signature-grazier').filter({ visible: true });
-    await grazierSide.getByText('Grazier — you').waitFor();
-    await grazierSide.getByText('Kellner Range Sheep (Wade Kellner)').waitFor();
+    const grazierSideWide = page.getByTestId('signature-grazier').filter({ visible: true });
+    await grazierSideWide.getByText('Grazier — you').waitFor();
+    await grazierSideWide.getByText('Kellner Range Sheep (Wade Kellner)').waitFor();
     await screenshot(page, 'market-contract-1280');
   });
 });
