@@ -1,6 +1,8 @@
 // Two projects: the app runs under jest-expo (React Native web-ish renderer), the server and the
 // shared domain library run in plain node through ts-jest with the server's decorator-enabled tsconfig.
 module.exports = {
+  // PDF rendering and bcrypt on a 2-core machine under load: the default 5 s per test is too tight.
+  testTimeout: 30_000,
   projects: [
     {
       displayName: 'app',

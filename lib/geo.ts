@@ -48,3 +48,39 @@ export function distanceKm(a: LatLng, b: LatLng): number {
 export function distanceMiles(a: LatLng, b: LatLng): number {
   return distanceMeters(a, b) / METERS_PER_MILE;
 }
+
+/** Earth's mean radius in international miles. */
+export const MEAN_EARTH_RADIUS_MILES = MEAN_EARTH_RADIUS_M / METERS_PER_MILE;
+
+export interface LatLngBox {
+  latMin: number;
+  latMax: number;
+  /** One range, or two when the box crosses the antimeridian (±180°); empty when every longitude is in. */
+  lngRanges: Array<[number, number]>;
+}
+
+/**
+ * A latitude/longitude box that holds every point within `miles` of `center` (a cheap prefilter for an index;
+ * the exact great-circle distance decides). The longitude half-width is asin(sin δ / cos φ) for an angular
+ * radius δ at latitude φ: the meridians tangent to the circle, by the spherical law of sines. When the circle
+ * reaches a pole every longitude is in. δ is widened by a millionth so that rounding never drops a point on
+ * the circle. Null when the circle covers the whole sphere.
+ */
+export function boundingBox(center: LatLng, miles: number): LatLngBox | null {
+  checkPoint(center, 'center');
+  const delta = (miles / MEAN_EARTH_RADIUS_MILES) * (1 + 1e-6) + 1e-12;
+  if (!(delta < Math.PI)) return null;
+  const deg = 180 / Math.PI;
+  const latMin = center.latitude - delta * deg;
+  const latMax = center.latitude + delta * deg;
+  const φ = center.latitude * RAD;
+  if (latMax >= 90 || latMin <= -90 || Math.sin(delta) >= Math.cos(φ)) {
+    return { latMin: Math.max(-90, latMin), latMax: Math.min(90, latMax), lngRanges: [] };
+  }
+  const half = Math.asin(Math.sin(delta) / Math.cos(φ)) * deg;
+  const west = center.longitude - half;
+  const east = center.longitude + half;
+  if (west < -180) return { latMin, latMax, lngRanges: [[west + 360, 180], [-180, east]] };
+  if (east > 180) return { latMin, latMax, lngRanges: [[west, 180], [-180, east - 360]] };
+  return { latMin, latMax, lngRanges: [[west, east]] };
+}

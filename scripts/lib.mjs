@@ -47,13 +47,17 @@ export function buildIfStale(label, sources, stamp, build) {
   return true;
 }
 
-const WEB_SOURCES = ['app', 'components', 'hooks', 'lib', 'assets', 'app.json', 'babel.config.js', 'package-lock.json'];
+// The web build also reads the route table the server shares with the service worker, and its own scripts.
+const WEB_SOURCES = ['app', 'components', 'hooks', 'lib', 'assets', 'public', 'app.json', 'babel.config.js', 'metro.config.js', 'package.json', 'package-lock.json', 'scripts/build-web.ts', 'scripts/web', 'server/lib/http/web-routes.ts'];
 const SERVER_SOURCES = ['server', 'lib', 'package-lock.json'];
 
+/** Runs a TypeScript operator script with the server's tsconfig (decorators, commonjs). */
+export function runTs(script, args = [], opts = {}) {
+  run('npx', ['tsx', '--tsconfig', 'server/tsconfig.json', script, ...args], opts);
+}
+
 export function buildWeb() {
-  buildIfStale('the web app (expo export)', WEB_SOURCES, 'dist/web/.built', () =>
-    run('npx', ['expo', 'export', '--platform', 'web', '--output-dir', 'dist/web'], { env: { ...process.env, CI: '1' } }),
-  );
+  buildIfStale('the web app (fonts, expo export, manifest, service worker, precompression)', WEB_SOURCES, 'dist/web/.built', () => runTs('scripts/build-web.ts'));
 }
 
 export function buildServer() {

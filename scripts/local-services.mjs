@@ -1,7 +1,8 @@
 // The local stand-ins for hosted services, each its own Node process run from the compiled server
 // (build/server/fakes/…), for npm start and npm test. Each one is spawned, awaited until every port it
 // owns answers, and handed back with stop(); `env` is what the app server needs to reach them.
-// Today: the mail sink (SMTP + inbox page). A further fake joins by one more startService call below.
+// Today: the mail sink (SMTP + inbox page) and the payments fake (the API the official SDK talks to, which
+// delivers signed webhooks to the app server). A further fake joins by one more startService call below.
 import { spawn } from 'node:child_process';
 import net from 'node:net';
 import path from 'node:path';
@@ -64,14 +65,22 @@ async function startService({ name, entry, env, ports, quiet }) {
   throw new Error(`${name} did not open ports ${Object.values(ports).join(', ')} within ${READY_TIMEOUT_MS / 1000} s:\n${output}`);
 }
 
+/** The server talks to the local payments fake unless a real key is set and no PAYMENTS_API_URL (server/config/env.ts). */
+export function usesPaymentsFake(env = process.env) {
+  return !(env.PAYMENTS_API_URL || /^sk_(live|test)_/.test(env.PAYMENTS_SECRET_KEY ?? ''));
+}
+
 /**
  * Starts every local service. `ports` fixes them (npm start: 1025 and 8025, or SMTP_PORT / MAIL_UI_PORT);
  * a port left out is a free one (npm test). State that should survive a restart goes under `dataDir`.
- * @param {{ dataDir: string, quiet?: boolean, ports?: { smtp?: number, mailUi?: number } }} options
+ * `appPort` is the app server's port, where the payments fake delivers its webhooks; `payments: false` leaves the
+ * fake out (a real payments API is configured). Both share `dataDir`, and with it the generated webhook secret.
+ * @param {{ dataDir: string, appPort: number, quiet?: boolean, payments?: boolean, ports?: { smtp?: number, mailUi?: number, payments?: number } }} options
  */
-export async function startLocalServices({ dataDir, quiet = false, ports = {} }) {
+export async function startLocalServices({ dataDir, appPort, quiet = false, payments = true, ports = {} }) {
   const smtpPort = checkPort('SMTP_PORT', ports.smtp ?? (await freePort()));
   const mailUiPort = checkPort('MAIL_UI_PORT', ports.mailUi ?? (await freePort()));
+  const paymentsPort = payments ? checkPort('PAYMENTS_FAKE_PORT', ports.payments ?? (await freePort())) : null;
   const started = [];
   const stop = async () => {
     await Promise.all(started.splice(0).map((s) => s.stop()));
@@ -86,14 +95,26 @@ export async function startLocalServices({ dataDir, quiet = false, ports = {} })
         quiet,
       }),
     );
+    if (paymentsPort !== null) {
+      started.push(
+        await startService({
+          name: 'payments fake',
+          entry: path.join(root, 'build', 'server', 'fakes', 'payments', 'main.js'),
+          env: { PAYMENTS_FAKE_PORT: String(paymentsPort), PAYMENTS_FAKE_HOST: LOOPBACK, DATA_DIR: dataDir, PAYMENTS_WEBHOOK_URL: `http://${LOOPBACK}:${appPort}/api/webhooks/payments` },
+          ports: { PAYMENTS_FAKE_PORT: paymentsPort },
+          quiet,
+        }),
+      );
+    }
   } catch (err) {
     await stop();
     throw err;
   }
   return {
     /** What the app server needs to reach the services. */
-    env: { SMTP_HOST: LOOPBACK, SMTP_PORT: String(smtpPort), MAIL_UI_PORT: String(mailUiPort) },
+    env: { SMTP_HOST: LOOPBACK, SMTP_PORT: String(smtpPort), MAIL_UI_PORT: String(mailUiPort), ...(paymentsPort !== null ? { PAYMENTS_FAKE_PORT: String(paymentsPort) } : {}) },
     mailSink: { smtpPort, uiPort: mailUiPort, url: `http://${LOOPBACK}:${mailUiPort}` },
+    payments: paymentsPort === null ? null : { port: paymentsPort, url: `http://${LOOPBACK}:${paymentsPort}` },
     stop,
   };
 }

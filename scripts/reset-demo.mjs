@@ -10,4 +10,6 @@ for (const f of ['fieldfold.sqlite', 'fieldfold.sqlite-wal', 'fieldfold.sqlite-s
 fs.rmSync(path.join(dataDir, 'uploads'), { recursive: true, force: true });
 // So do the PDF records stored for its contracts and invoices.
 fs.rmSync(path.join(dataDir, 'documents'), { recursive: true, force: true });
+// And the payments fake's copy of its invoices (the webhook secret stays, like the token secret).
+fs.rmSync(path.join(dataDir, 'payments-fake'), { recursive: true, force: true });
 console.log(`[fieldfold] demo data reset in ${dataDir}; the next npm start seeds the Calder Valley district again.`);

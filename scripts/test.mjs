@@ -60,9 +60,10 @@ try {
   buildServer();
   const port = await freePort();
   const dataDir = fs.mkdtempSync(path.join(os.tmpdir(), 'fieldfold-e2e-'));
-  services = await startLocalServices({ dataDir, quiet: true });
+  services = await startLocalServices({ dataDir, appPort: port, quiet: true });
   server = await startServer({ PORT: String(port), HOST: '127.0.0.1', DATA_DIR: dataDir, NODE_ENV: 'test', ...services.env }, { quiet: true });
-  const e2eEnv = { E2E_BASE_URL: `http://127.0.0.1:${port}`, E2E_MAIL_UI_URL: services.mailSink.url };
+  // E2E_DATA_DIR: the browser suite may put a contract into a state whose own flow is not its subject (invoices).
+  const e2eEnv = { E2E_BASE_URL: `http://127.0.0.1:${port}`, E2E_MAIL_UI_URL: services.mailSink.url, E2E_PAYMENTS_URL: services.payments?.url ?? '', E2E_DATA_DIR: dataDir };
   add('browser suite (chromium)', jest(['--config', 'jest.e2e.config.js', '--runInBand', '--ci'], 'jest-e2e.json', e2eEnv));
 } catch (err) {
   console.error(`[fieldfold] test run stopped: ${err.message}`);

@@ -1,5 +1,3 @@
-import fs from 'node:fs';
-import path from 'node:path';
 import express, { type Express } from 'express';
 import type { DataSource } from 'typeorm';
 import { accountsRouter } from './modules/accounts/accounts.routes';
@@ -7,9 +5,12 @@ import { calcRouter } from './modules/calc/calc.routes';
 import { blocksRouter } from './modules/blocks/blocks.routes';
 import { bidsRouter } from './modules/bids/bids.routes';
 import { contractsRouter } from './modules/contracts/contracts.routes';
+import { invoicesRouter, paymentsWebhookRouter } from './modules/invoices/invoices.routes';
+import type { PaymentsPort } from './lib/payments';
 import { errorHandler, notFoundHandler } from './lib/errors/error-handler';
 import type { MailOutbox } from './lib/mail/outbox';
 import { appLinks } from './lib/mail/links';
+import { compressAndCache, webApp } from './lib/http/web-app';
 import { localPhotoStore } from './lib/storage/photo-store';
 import { localFileStore } from './lib/storage/file-store';
 import type { PdfRenderer } from './lib/pdf/pdf-renderer';
@@ -35,6 +36,8 @@ export interface AppDeps {
   publicUrl?: string;
   /** Clock in epoch ms, for "today" at a block, sessions and mail; tests fix it. */
   now?: () => number;
+  /** The payments API (server/lib/payments): the SDK adapter on the local fake or the hosted API. */
+  payments: PaymentsPort;
 }
 
 /** The ports the business modules use, from the app's dependencies (tests build one to call services directly). */
@@ -48,6 +51,7 @@ export function serviceContext(deps: AppDeps): ServiceContext {
     photos: localPhotoStore(deps.uploadsDir),
     documents: localFileStore(deps.documentsDir),
     pdf: deps.pdf ?? pdfkitRenderer(),
+    payments: deps.payments,
     tokenSecret: deps.tokens.secret,
   };
 }
@@ -57,6 +61,7 @@ export function createApp(deps: AppDeps): Express {
   const app = express();
   app.disable('x-powered-by');
   app.set('trust proxy', 'loopback');
+  app.use(compressAndCache());
 
   const api = express.Router();
   if (deps.corsOrigin) {
@@ -78,15 +83,13 @@ export function createApp(deps: AppDeps): Express {
   api.use(blocksRouter(ctx));
   api.use(bidsRouter(ctx));
   api.use(contractsRouter(ctx));
+  api.use(invoicesRouter(ctx));
   api.use(notFoundHandler);
+  // Ahead of the API router and its JSON parser: the webhook's signature covers the raw bytes.
+  app.use('/api', paymentsWebhookRouter(ctx));
   app.use('/api', api);
 
-  if (deps.webDir && fs.existsSync(path.join(deps.webDir, 'index.html'))) {
-    const webDir = path.resolve(deps.webDir);
-    app.use(express.static(webDir, { extensions: ['html'], index: 'index.html', maxAge: '1h' }));
-    // Deep links (/blocks/42) are routes of the single-page app.
-    app.get(/^(?!\/api\/).*/, (_req, res) => res.sendFile(path.join(webDir, 'index.html')));
-  }
+  if (deps.webDir) app.use(webApp(deps.webDir));
 
   app.use(errorHandler(deps.log));
   return app;

@@ -3,11 +3,13 @@ import path from 'node:path';
 import { loadConfig, ConfigError } from './config/env';
 import { openDatabase } from './db/data-source';
 import { seedDemoOnce } from './db/seed/demo';
-import { createApp } from './app';
+import { createApp, serviceContext, type AppDeps } from './app';
 import type { MailPort } from './lib/mail/mail-port';
 import { MemoryMail } from './lib/mail/memory-mail';
 import { OutboxSender } from './lib/mail/outbox';
 import { SmtpMail } from './lib/mail/smtp-mail';
+import { createPayments } from './lib/payments';
+import { InvoiceRecovery } from './modules/invoices/invoice-sync';
 
 // config → database (migrations) → demo seed (once) → listen → graceful shutdown.
 async function main() {
@@ -24,7 +26,9 @@ async function main() {
     : new MemoryMail((msg) => console.log(`[mail] ${JSON.stringify(msg.subject)}`), 500);
   const outbox = new OutboxSender(dataSource, mail, Date.now, console.error);
   outbox.start();
-  const app = createApp({
+  const payments = createPayments(config.payments);
+  console.log(`[fieldfold] payments: ${config.payments.mode === 'hosted' ? 'the hosted payments API' : `the local fake at ${config.payments.apiUrl}`}`);
+  const deps: AppDeps = {
     dataSource,
     tokens: { secret: config.tokenSecret, ttl: config.tokenTtl },
     webDir: config.webDir,
@@ -33,7 +37,12 @@ async function main() {
     documentsDir: path.join(config.dataDir, 'documents'),
     outbox,
     publicUrl: config.publicUrl,
-  });
+    payments,
+  };
+  const app = createApp(deps);
+  // Invoices still being issued (the payments API was down, or the process stopped between two steps) go on.
+  const invoiceRecovery = new InvoiceRecovery(serviceContext(deps));
+  invoiceRecovery.start();
   const server: Server = app.listen(config.port, config.host, () => {
     const addr = server.address();
     const port = typeof addr === 'object' && addr ? addr.port : config.port;
@@ -50,6 +59,7 @@ async function main() {
     closing = true;
     console.log(`[fieldfold] ${signal}: closing`);
     server.close(async () => {
+      await invoiceRecovery.stop();
       await outbox.stop();
       await dataSource.destroy();
       process.exit(0);

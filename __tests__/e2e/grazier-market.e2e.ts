@@ -26,6 +26,9 @@ interface BidLite {
   normalised: { estimatedTotalCents: number; headDays: number; costPerAcreCents: number; costPerHeadDayRate: string; overgrazes: boolean };
 }
 
+/** The day `n` days after a 'YYYY-MM-DD' day (the seed dates its market from the day it runs). */
+const plusDays = (day: string, n: number) => new Date(Date.parse(`${day}T00:00:00Z`) + n * 86_400_000).toISOString().slice(0, 10);
+
 const login = (email: string) => api<{ token: string }>('/auth/login', { body: { email, password: PASSWORD } }).then((r) => r.token);
 
 async function vineyardFor(token: string): Promise<BlockLite> {
@@ -94,18 +97,19 @@ describe('The grazier side of the market', () => {
 
     await field(page, 'Rate').fill('0.2');
     // Out after the out-by date: the block's rule shows beside the field, in the server's words.
-    await field(page, 'Start date').fill('2027-01-20');
-    await field(page, 'End date').fill('2027-03-15');
+    const start = plusDays(block.grazeFrom, 2);
+    await field(page, 'Start date').fill(start);
+    await field(page, 'End date').fill(plusDays(block.grazeUntil, 5));
     await field(page, 'End date').blur();
     await page.getByText(/End date must be on or before the animals-out-by date/).filter({ visible: true }).waitFor();
 
     // 21 days for 600 head is more than the block's target take: a clear warning.
-    await field(page, 'End date').fill('2027-02-10');
+    await field(page, 'End date').fill(plusDays(start, 21));
     await page.getByTestId('overgraze-warning').filter({ visible: true }).waitFor();
     await screenshot(page, 'market-bid-overgraze-390');
 
     // 10 days: within the target; 600 × 10 head-days × $0.20 = $1,200.00.
-    await field(page, 'End date').fill('2027-01-30');
+    await field(page, 'End date').fill(plusDays(start, 10));
     await page.getByTestId('overgraze-warning').waitFor({ state: 'detached' });
     await expect(page.getByTestId('preview-head-days').filter({ visible: true }).textContent()).resolves.toBe('6,000');
     await expect(page.getByTestId('preview-total').filter({ visible: true }).textContent()).resolves.toBe('$1,200.00');
@@ -215,11 +219,15 @@ describe('The grazier side of the market', () => {
     await expect(page.getByTestId('contract-total').filter({ visible: true }).textContent()).resolves.toBe(cents(bid.normalised.estimatedTotalCents));
     expect(bid.normalised.estimatedTotalCents).toBe(75_000);
     await expect(page.getByTestId('contract-rate').filter({ visible: true }).textContent()).resolves.toBe('$30.00 per acre');
-    await page.getByText('Kellner Range Sheep (Wade Kellner) — you').filter({ visible: true }).waitFor();
+    const grazierSide = page.getByTestId('signature-grazier').filter({ visible: true });
+    await grazierSide.getByText('Grazier — you').waitFor();
+    await grazierSide.getByText('Kellner Range Sheep (Wade Kellner)').waitFor();
     await screenshot(page, 'market-contract-390');
 
     await page.setViewportSize(WIDE);
-    await page.getByText('Kellner Range Sheep (Wade Kellner) — you').filter({ visible: true }).waitFor();
+    const grazierSideWide = page.getByTestId('signature-grazier').filter({ visible: true });
+    await grazierSideWide.getByText('Grazier — you').waitFor();
+    await grazierSideWide.getByText('Kellner Range Sheep (Wade Kellner)').waitFor();
     await screenshot(page, 'market-contract-1280');
   });
 });

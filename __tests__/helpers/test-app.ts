@@ -7,6 +7,7 @@ import { openDatabase } from '../../server/db/data-source';
 import { createApp, serviceContext, type AppDeps } from '../../server/app';
 import { MemoryMail } from '../../server/lib/mail/memory-mail';
 import { OutboxSender } from '../../server/lib/mail/outbox';
+import { createPayments, type PaymentsPort } from '../../server/lib/payments';
 
 // Long enough that tests may move the app's clock through a season without the session expiring.
 export const TEST_TOKENS = { secret: 'test-secret-that-is-long-enough-to-sign-tokens', ttl: '400d' };
@@ -19,6 +20,12 @@ export interface TestAppOptions {
   log?: (msg: string) => void;
   /** A mail adapter other than the in-memory outbox (e.g. one that fails). */
   mail?: import('../../server/lib/mail/mail-port').MailPort;
+  /** A PDF renderer other than pdfkit (e.g. one that fails). */
+  pdf?: AppDeps['pdf'];
+  /** The payments API; by default one that nothing answers (tests that pay use helpers/invoicing.ts, with the fake). */
+  payments?: PaymentsPort;
+  /** An exported web app to serve beside the API. */
+  webDir?: string;
 }
 
 /** A fresh in-memory SQLite that ran the real migrations, and the real app on top of it. */
@@ -41,6 +48,9 @@ export async function makeTestApp(options: TestAppOptions = {}) {
     outbox,
     publicUrl: 'http://fieldfold.test',
     now,
+    pdf: options.pdf,
+    payments: options.payments ?? createPayments({ mode: 'fake', secretKey: 'sk_test_nothing_answers', apiUrl: 'http://127.0.0.1:9', webhookSecret: 'whsec_unused_in_these_tests', webhookToleranceSeconds: 300 }),
+    webDir: options.webDir,
   };
   const app = createApp(deps);
   let n = 0;

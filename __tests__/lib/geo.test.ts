@@ -1,5 +1,5 @@
 import fc from 'fast-check';
-import { centralAngle, distanceKm, distanceMeters, distanceMiles, MEAN_EARTH_RADIUS_M, METERS_PER_MILE } from '../../lib/geo';
+import { boundingBox, centralAngle, distanceKm, distanceMeters, distanceMiles, MEAN_EARTH_RADIUS_M, METERS_PER_MILE, type LatLngBox } from '../../lib/geo';
 import { GrazingInputError } from '../../lib/grazing/errors';
 
 const dms = (deg: number, min: number) => deg + min / 60;
@@ -53,5 +53,43 @@ describe('great-circle distance (haversine on a sphere of radius 6 371 008.8 m)'
     expect(distanceKm({ latitude: 39.7, longitude: -121.9 }, { latitude: 39.7, longitude: -121.9 })).toBe(0);
     expect(() => distanceKm({ latitude: 91, longitude: 0 }, { latitude: 0, longitude: 0 })).toThrow(GrazingInputError);
     expect(() => distanceKm({ latitude: 0, longitude: 0 }, { latitude: 0, longitude: 181 })).toThrow(/Longitude/);
+  });
+});
+
+describe('boundingBox (the market\'s prefilter before the exact distance)', () => {
+  const inBox = (box: LatLngBox, p: { latitude: number; longitude: number }) =>
+    p.latitude >= box.latMin && p.latitude <= box.latMax && (box.lngRanges.length === 0 || box.lngRanges.some(([w, e]) => p.longitude >= w && p.longitude <= e));
+  const point = fc.record({ latitude: fc.double({ min: -90, max: 90, noNaN: true }), longitude: fc.double({ min: -180, max: 180, noNaN: true }) });
+
+  it('When a point is within the distance, then it is inside the box — anywhere on the globe, across ±180° and round the poles', () => {
+    fc.assert(
+      fc.property(point, fc.double({ min: 0.001, max: 13_000, noNaN: true }), fc.double({ min: 0, max: 1, noNaN: true }), fc.double({ min: -Math.PI, max: Math.PI, noNaN: true }), (c, miles, f, bearing) => {
+        // A point at distance f × miles along `bearing`, by the direct formula on the sphere.
+        const δ = (f * miles) / (MEAN_EARTH_RADIUS_M / METERS_PER_MILE);
+        const φ1 = (c.latitude * Math.PI) / 180;
+        const λ1 = (c.longitude * Math.PI) / 180;
+        const φ2 = Math.asin(Math.min(1, Math.max(-1, Math.sin(φ1) * Math.cos(δ) + Math.cos(φ1) * Math.sin(δ) * Math.cos(bearing))));
+        const λ2 = λ1 + Math.atan2(Math.sin(bearing) * Math.sin(δ) * Math.cos(φ1), Math.cos(δ) - Math.sin(φ1) * Math.sin(φ2));
+        const p = { latitude: (φ2 * 180) / Math.PI, longitude: ((((λ2 * 180) / Math.PI + 540) % 360) + 360) % 360 - 180 };
+        if (!(distanceMiles(c, p) <= miles)) return; // rounding may put the generated point just outside: nothing to check
+        const box = boundingBox(c, miles);
+        if (box) expect(inBox(box, p)).toBe(true);
+      }),
+      { numRuns: 5000 },
+    );
+  });
+
+  it('When the circle is small and away from the poles and ±180°, then the box is one tight range: 1° of latitude is 69.09 miles', () => {
+    const box = boundingBox({ latitude: 38, longitude: -120 }, 69.09)!;
+    expect(box.latMax - 38).toBeCloseTo(1, 3);
+    expect(box.lngRanges).toHaveLength(1);
+    // At 38° a degree of longitude is cos 38° as long: the half-width is about 1 / cos 38° = 1.269°.
+    expect(box.lngRanges[0][1] + 120).toBeCloseTo(1 / Math.cos((38 * Math.PI) / 180), 2);
+  });
+
+  it('When the circle crosses the antimeridian, then two longitude ranges; when it holds a pole, then every longitude; when it covers the globe, then none', () => {
+    expect(boundingBox({ latitude: -17.8, longitude: 179.95 }, 50)!.lngRanges).toHaveLength(2);
+    expect(boundingBox({ latitude: 89.5, longitude: 10 }, 50)!.lngRanges).toEqual([]);
+    expect(boundingBox({ latitude: 0, longitude: 0 }, 13_000)).toBeNull();
   });
 });

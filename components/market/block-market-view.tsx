@@ -3,7 +3,7 @@ import { Link, useRouter } from 'expo-router';
 import { StyleSheet, View } from 'react-native';
 import type { BlockView } from '@/lib/schemas/block';
 import { formatDay, formatDayRange, formatNumber } from '@/lib/format';
-import { useMyBids } from '@/hooks/api/bids';
+import { useBid } from '@/hooks/api/bids';
 import { useLayout } from '@/hooks/use-layout';
 import { Button, Card, Notice, Screen, Text } from '@/components/ui';
 import { space } from '@/components/ui/theme';
@@ -102,8 +102,8 @@ function BidCard({ block, action }: { block: BlockView; action: ReactNode }) {
 }
 
 function MyLiveBid({ bidId }: { bidId: string }) {
-  const mine = useMyBids();
-  const bid = mine.data?.find((b) => b.id === bidId);
+  const mine = useBid(bidId);
+  const bid = mine.data;
   if (mine.isPending) return <Text tone="muted">Loading your bid…</Text>;
   if (!bid) return null;
   return (

@@ -1,8 +1,9 @@
-import { forwardRef, useState } from 'react';
+import { forwardRef, useImperativeHandle, useRef, useState } from 'react';
 import { StyleSheet, TextInput, View, type TextInputProps } from 'react-native';
 import { Text } from './text';
 import { FieldMessage } from './field-message';
 import { colors, fonts, radius, space } from './theme';
+import { useTypedBeforeHydration } from './use-typed-before-hydration';
 
 export interface TextFieldProps extends TextInputProps {
   label: string;
@@ -13,6 +14,9 @@ export interface TextFieldProps extends TextInputProps {
 
 export const TextField = forwardRef<TextInput, TextFieldProps>(function TextField({ label, error, hint, unit, style, onFocus, onBlur, ...rest }, ref) {
   const [focused, setFocused] = useState(false);
+  const input = useRef<TextInput>(null);
+  useImperativeHandle(ref, () => input.current as TextInput);
+  useTypedBeforeHydration(input, rest.value, rest.onChangeText);
   return (
     <View style={styles.wrap}>
       <Text variant="label" nativeID={rest.nativeID ? `${rest.nativeID}-label` : undefined}>
@@ -20,7 +24,7 @@ export const TextField = forwardRef<TextInput, TextFieldProps>(function TextFiel
       </Text>
       <View style={[styles.box, focused && styles.focused, !!error && styles.invalid]}>
         <TextInput
-          ref={ref}
+          ref={input}
           aria-label={label}
           aria-invalid={!!error}
           placeholderTextColor={colors.inkFaint}

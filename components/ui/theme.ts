@@ -1,5 +1,6 @@
 // Fieldfold's visual tokens, in one place. Screens and components read these; none hard-codes a colour.
 // The palette is drawn from a winter orchard floor: loam, cover-crop green, dry straw, clay.
+import { withFallback } from './font-family';
 
 export const colors = {
   ink: '#1E2822',
@@ -32,14 +33,14 @@ export const space = { xxs: 2, xs: 4, sm: 8, md: 12, lg: 16, xl: 24, xxl: 32, xx
 export const radius = { sm: 6, md: 10, lg: 16, pill: 999 } as const;
 
 export const fonts = {
-  body: 'PublicSans_400Regular',
-  bodyStrong: 'PublicSans_600SemiBold',
-  bodyBold: 'PublicSans_700Bold',
-  display: 'Bitter_700Bold',
-  heading: 'Bitter_600SemiBold',
+  body: withFallback('PublicSans_400Regular', 'sans'),
+  bodyStrong: withFallback('PublicSans_600SemiBold', 'sans'),
+  bodyBold: withFallback('PublicSans_700Bold', 'sans'),
+  display: withFallback('Bitter_700Bold', 'slab'),
+  heading: withFallback('Bitter_600SemiBold', 'slab'),
   /** Fingerprints and ids: the system's monospace (nothing to ship; only hex digits use it). */
   mono: 'monospace',
-} as const;
+};
 
 /** Type scale: size / line height in px. Display and headings in the slab serif, the rest in the sans. */
 export const type = {

@@ -25,6 +25,18 @@ export const blockBidsQueryOptions = (blockId: string) =>
 export const myBidsQueryOptions = () =>
   queryOptions({ queryKey: bidKeys.mine(), queryFn: () => api<{ items: BidView[] }>('/bids').then((r) => r.items), staleTime: staleTimes.list });
 
+export const bidQueryOptions = (bidId: string) =>
+  queryOptions({
+    queryKey: bidKeys.detail(bidId),
+    queryFn: () => api<{ bid: BidView }>(`/bids/${enc(bidId)}`).then((r) => r.bid),
+    staleTime: staleTimes.list,
+  });
+
+/** One bid by id (my live bid on a block): the lists come a page at a time, so look it up directly. */
+export function useBid(bidId: string | null | undefined) {
+  return useQuery({ ...bidQueryOptions(bidId ?? ''), enabled: !!bidId });
+}
+
 export function useBlockBids(blockId: string | undefined, enabled = true) {
   return useQuery({ ...blockBidsQueryOptions(blockId ?? ''), enabled: !!blockId && enabled });
 }

@@ -61,13 +61,27 @@ export function dailyIntakeLb(animal: AnimalIntake, fieldPrefix = 'animal'): num
   return (animal.bodyWeightLb * animal.intakePctBodyWeight) / 100;
 }
 
-export function capacity(input: CapacityInput): CapacityResult {
+export interface AllowableInput {
+  acres: number;
+  lbDmPerAcre: number;
+  utilizationPct: number;
+}
+
+/**
+ * lb DM the animals may take from a block: acres × lb DM/ac × utilisation. It depends on the block alone, so
+ * the server stores it with the block and the market filters and sorts "days for my flock" on it in SQL.
+ */
+export function allowableForage(input: AllowableInput): { standingLb: number; allowableLb: number } {
   requireFinite(input.acres, 'acres', 'Acres', { min: 0, inclusive: false });
   requireFinite(input.lbDmPerAcre, 'lbDmPerAcre', 'Forage (lb DM per acre)', { min: 0, inclusive: true });
   requireFinite(input.utilizationPct, 'utilizationPct', 'Utilisation', { min: 0, inclusive: false, max: 100 });
-  const dailyIntakeLbPerHead = dailyIntakeLb(input.animal);
   const standingLb = input.acres * input.lbDmPerAcre;
-  const allowableLb = (standingLb * input.utilizationPct) / 100;
+  return { standingLb, allowableLb: (standingLb * input.utilizationPct) / 100 };
+}
+
+export function capacity(input: CapacityInput): CapacityResult {
+  const { standingLb, allowableLb } = allowableForage(input);
+  const dailyIntakeLbPerHead = dailyIntakeLb(input.animal);
   const headDays = allowableLb / dailyIntakeLbPerHead;
   const animalUnitDays = (headDays * dailyIntakeLbPerHead) / AU_CONVENTION.lbDmPerAuDay;
   return {

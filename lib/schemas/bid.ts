@@ -2,6 +2,7 @@ import * as yup from 'yup';
 import { CHARGE_BASES, parseRate, RATE_PATTERN, type ChargeBasis } from '../money';
 import { FLOCK_CLASSES } from './account';
 import { bothDays, day, int, num, paragraphs, rejectUnknown } from './fields';
+import { pageFields } from './paging';
 import { FLOCK_SPECIES, type FlockSpecies } from '../grazing/flock-intake';
 import type { NormalisedBid } from '../grazing/bid-compare';
 import type { Caution } from '../grazing/safety';
@@ -110,3 +111,18 @@ export interface BidView extends BidTermsView {
   updatedAt: string;
   decidedAt: string | null;
 }
+
+// ——— GET /api/blocks/:id/bids and GET /api/bids query ———
+
+/** A block rarely draws more than a few dozen bids; a page holds them all, and the cap bounds the work. */
+export const DEFAULT_BID_PAGE_SIZE = 50;
+export const MAX_BID_PAGE_SIZE = 100;
+
+export const bidListQuerySchema = rejectUnknown(
+  yup.object({
+    status: yup.string().strict().typeError('Give status once').oneOf([...BID_STATUSES], `Status must be one of: ${BID_STATUSES.join(', ')}`).optional(),
+    ...pageFields(MAX_BID_PAGE_SIZE),
+  }),
+);
+
+export type BidListQuery = yup.InferType<typeof bidListQuerySchema>;

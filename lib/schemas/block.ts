@@ -3,6 +3,7 @@ import { isValidTimeZone } from '../dates';
 import { isValidQuantity } from '../money';
 import { forageRequestSchema } from './calc';
 import { bool, bothDays, day, int, line, num, paragraphs, rejectUnknown } from './fields';
+import { pageFields, queryNumber } from './paging';
 import { FORAGE_METHODS, forageFigureProblem, MAX_LB_DM_PER_ACRE, measuredLbDmPerAcre, type BlockForageInput, type ForageMethod } from '../grazing/block-forage';
 import { GRAZING_SPECIES, type GrazingSpecies } from '../grazing/flock-intake';
 import type { Caution, SprayRecord } from '../grazing/safety';
@@ -185,16 +186,6 @@ export interface BlockInput {
 
 // ——— GET /api/blocks query ———
 
-const QUERY_NUMBER = /^\s*\d+(\.\d+)?\s*$/;
-
-/** A number given as query text; "12abc", "", "-3" and repeated parameters are refused, not coerced. */
-function queryNumber(label: string) {
-  return yup
-    .number()
-    .transform((_v: unknown, original: unknown) => (typeof original === 'string' && QUERY_NUMBER.test(original) ? Number(original) : original === undefined ? undefined : NaN))
-    .typeError(`${label} must be a number`);
-}
-
 export const BLOCK_SORTS = ['distance', 'window', 'acres', 'days', 'newest'] as const;
 export type BlockSort = (typeof BLOCK_SORTS)[number];
 export const BLOCK_LIST_VIEWS = ['mine', 'market'] as const;
@@ -221,12 +212,7 @@ export const blockListQuerySchema = rejectUnknown(
     minDays: queryNumber('Minimum days').min(0, 'Minimum days must be 0 or more').max(3650, 'Minimum days must be at most 3 650').optional(),
     species: yup.string().strict().typeError('Give one species: sheep or goats').oneOf([...GRAZING_SPECIES], 'Species must be sheep or goats').optional(),
     sort: yup.string().strict().typeError('Give sort once').oneOf([...BLOCK_SORTS], `Sort must be one of: ${BLOCK_SORTS.join(', ')}`).optional(),
-    page: queryNumber('Page').integer('Page must be a whole number').min(1, 'Page must be 1 or more').optional(),
-    pageSize: queryNumber('Page size')
-      .integer('Page size must be a whole number')
-      .min(1, 'Page size must be at least 1')
-      .max(MAX_PAGE_SIZE, `Page size must be at most ${MAX_PAGE_SIZE}`)
-      .optional(),
+    ...pageFields(MAX_PAGE_SIZE),
   }),
 );
 

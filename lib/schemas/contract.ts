@@ -2,10 +2,14 @@ import * as yup from 'yup';
 import type { NormalisedBid } from '../grazing/bid-compare';
 import type { Caution } from '../grazing/safety';
 import type { HeadDaysByDay } from '../grazing/head-days';
+import type { LogAlert, LogFiguresResult } from '../grazing/log-figures';
+import type { SprayRecord } from '../grazing/safety';
+import type { AmendableTerm } from '../contract-terms';
 import type { BidTermsView } from './bid';
 import type { BlockSummary, PartyView } from './block';
 import { bool, day, int, line, num, paragraphs, rejectUnknown } from './fields';
-import { CHARGE_BASES, RATE_PATTERN } from '../money';
+import { CHARGE_BASES, isValidQuantity, RATE_PATTERN } from '../money';
+import { parseIsoInstant } from '../dates';
 
 // A contract is born when a grower awards a bid: the agreed terms are copied from the bid and the block at
 // that moment, so later edits to either never change what was agreed. Both parties sign; the grazier keeps
@@ -60,7 +64,12 @@ export const logEntrySchema = rejectUnknown(
     clientId: yup.string().strict().matches(/^[A-Za-z0-9_-]{8,64}$/, 'Client id must be 8–64 letters, digits, - or _').required('Client id is required'),
     kind: yup.string().strict().oneOf([...LOG_ENTRY_KINDS], 'Kind must be move, tally or observation').required('Kind is required'),
     /** ISO 8601 instant with offset. */
-    at: yup.string().strict().typeError('Time must be a date and time like 2027-01-15T07:30:00-08:00').required('Time is required'),
+    at: yup
+      .string()
+      .strict()
+      .typeError('Time must be a date and time like 2027-01-15T07:30:00-08:00')
+      .test('instant', 'Time must be a date and time with a UTC offset, like 2027-01-15T07:30:00-08:00', (v) => v == null || parseIsoInstant(v) !== null)
+      .required('Time is required'),
     /** move: animals in (+n) or out (−n). */
     change: int('Change').min(-20_000, 'Change must be at least −20 000').max(20_000, 'Change must be at most 20 000').test('not-zero', 'Change must not be 0', (v) => v !== 0).optional(),
     /** tally: head counted on the block. */
@@ -78,14 +87,26 @@ export const logEntrySchema = rejectUnknown(
 );
 export type LogEntryInput = yup.InferType<typeof logEntrySchema>;
 
+/** Voiding a log entry (its author, while the log is open): the entry stays in the record, struck out. */
+export const voidLogEntrySchema = rejectUnknown(
+  yup.object({
+    reason: paragraphs('Reason', 1000).min(3, 'Say why the entry is wrong').required('Say why the entry is wrong'),
+  }),
+);
+export type VoidLogEntryInput = yup.InferType<typeof voidLogEntrySchema>;
+
 export const SIGN_OFF_ACTIONS = ['propose', 'approve', 'dispute', 'accept-counter'] as const;
 export type SignOffAction = (typeof SIGN_OFF_ACTIONS)[number];
 
 export const signOffSchema = rejectUnknown(
   yup.object({
     action: yup.string().strict().oneOf([...SIGN_OFF_ACTIONS], 'Action must be propose, approve, dispute or accept-counter').required('Action is required'),
-    /** dispute: the grower's counter figure. */
-    headDays: num('Head-days').min(0, 'Head-days must not be negative').max(100_000_000, 'Head-days is too large').optional(),
+    /** dispute: the grower's counter figure (at most 4 decimals, the precision of lib/grazing/head-days and of an invoice line). */
+    headDays: num('Head-days')
+      .min(0, 'Head-days must not be negative')
+      .max(100_000_000, 'Head-days is too large')
+      .test('decimals', 'Head-days may have at most 4 decimals', (v) => v === undefined || !(v >= 0) || isValidQuantity(v))
+      .optional(),
     comment: paragraphs('Comment', 2000).optional().nullable(),
   }),
 );
@@ -99,7 +120,21 @@ export const amendmentSchema = rejectUnknown(
     endDate: day('End date').optional(),
     outBy: day('Animals-out-by date').optional(),
     basis: yup.string().strict().oneOf([...CHARGE_BASES], 'Pricing basis must be head-day, acre or flat').optional(),
-    rate: yup.string().strict().matches(RATE_PATTERN, 'Rate must be a dollar amount like 0.18, with at most 6 decimals').optional(),
+    rate: yup
+      .string()
+      .strict()
+      .matches(RATE_PATTERN, 'Rate must be a dollar amount like 0.18, with at most 6 decimals')
+      .test('positive', 'Rate must be more than 0', (v) => v === undefined || !RATE_PATTERN.test(v) || /[1-9]/.test(v))
+      .optional(),
+    /**
+     * Only once the head-days are agreed: a corrected agreed figure (a mistake found after sign-off). The
+     * agreed head-days change only through an amendment both parties sign.
+     */
+    agreedHeadDays: num('Agreed head-days')
+      .min(0, 'Agreed head-days must not be negative')
+      .max(100_000_000, 'Agreed head-days is too large')
+      .test('decimals', 'Agreed head-days may have at most 4 decimals', (v) => v === undefined || !(v >= 0) || isValidQuantity(v))
+      .optional(),
     reason: paragraphs('Reason', 1000).min(3, 'Say why the terms change').required('Say why the terms change'),
   }),
 );
@@ -112,14 +147,51 @@ export const cancelContractSchema = rejectUnknown(
 );
 export type CancelContractInput = yup.InferType<typeof cancelContractSchema>;
 
+/** Largest page of GET /api/contracts and GET /api/contracts/:id/log. */
+export const MAX_CONTRACT_PAGE = 100;
+export const DEFAULT_LOG_PAGE = 50;
+export const DEFAULT_CONTRACT_PAGE = 25;
+
+const QUERY_INT = /^\d{1,6}$/;
+const pageLimit = (label: string) =>
+  yup
+    .number()
+    .transform((_v: unknown, original: unknown) => (original === undefined ? undefined : typeof original === 'string' && QUERY_INT.test(original) ? Number(original) : NaN))
+    .typeError(`${label} must be a whole number`)
+    .integer(`${label} must be a whole number`)
+    .min(1, `${label} must be at least 1`)
+    .max(MAX_CONTRACT_PAGE, `${label} must be at most ${MAX_CONTRACT_PAGE}`)
+    .optional();
+const cursor = yup.string().strict().typeError('Give cursor once').matches(/^[A-Za-z0-9_-]{1,200}$/, 'Cursor is not one this API gave').optional();
+
+export const contractListQuerySchema = rejectUnknown(
+  yup.object({
+    status: yup.string().strict().typeError('Give status once').oneOf([...CONTRACT_STATUSES], `Status must be one of: ${CONTRACT_STATUSES.join(', ')}`).optional(),
+    limit: pageLimit('Limit'),
+    cursor,
+  }),
+);
+export type ContractListQuery = yup.InferType<typeof contractListQuerySchema>;
+
+export const logPageQuerySchema = rejectUnknown(yup.object({ limit: pageLimit('Limit'), cursor }));
+export type LogPageQuery = yup.InferType<typeof logPageQuerySchema>;
+
 // ——— views ———
 
+export type ContractParty = 'grower' | 'grazier';
+
 export interface SignatureView {
-  party: 'grower' | 'grazier';
+  party: ContractParty;
   accountId: string;
   typedName: string;
   signedAt: string;
   termsHash: string;
+  // Added with the signing API; optional only so values typed against the first draft still compile — the
+  // server always sends them.
+  /** The version of the terms this signature is on. */
+  termsVersion?: number;
+  /** The signer ticked that they read the cautions shown with the terms (always true: signing requires it). */
+  cautionsAcknowledged?: boolean;
 }
 
 export interface LogEntryView {
@@ -143,10 +215,34 @@ export interface LogEntryView {
   /** Reasons the record flags this entry, e.g. "after the animals-out-by date". Never refused: the record shows what happened. */
   flags: string[];
   recordedAt: string;
+  // Added with the log API; optional only so values typed against the first draft still compile — the
+  // server always sends them.
+  /** The author's name as the account has it. */
+  authorName?: string;
+  /** Set when the author voided the entry: it stays in the record and counts for nothing. */
+  voided?: { at: string; reason: string } | null;
+  /** Photos attached to the entry (POST /api/contracts/:id/log/:entryId/photos). */
+  photos?: LogPhotoView[];
 }
 
-/** Running figures of a log (lib/grazing/log-figures.ts computes them; the screen and the PDF show them). */
-export interface LogFigures {
+export interface LogPhotoView {
+  id: string;
+  /** Path under the API origin with a short-lived signed `access` token, usable as an <img> src (1 h). */
+  url: string;
+  mimeType: 'image/jpeg' | 'image/png' | 'image/webp';
+  sizeBytes: number;
+  createdAt: string;
+}
+
+type FirstDraftFigures = 'headNow' | 'headDaysSoFar' | 'byDay' | 'eatenLb' | 'targetTakeLb' | 'projectedUtilizationPct' | 'daysLeftInWindow' | 'daysToOutBy' | 'warnings';
+
+/**
+ * Running figures of a log (lib/grazing/log-figures.ts computes them; the screen and the PDF show them).
+ * The fields listed here were the first draft; the rest of LogFiguresResult (intake and its source,
+ * standing forage, utilisation so far, the alerts with their tone …) are optional only so values typed
+ * against the first draft still compile — the server always sends them.
+ */
+export interface LogFigures extends Partial<Omit<LogFiguresResult, FirstDraftFigures>> {
   headNow: number;
   headDaysSoFar: number;
   byDay: HeadDaysByDay[];
@@ -157,19 +253,85 @@ export interface LogFigures {
   daysLeftInWindow: number;
   daysToOutBy: number;
   warnings: string[];
+  /** The warnings with their key and tone (danger, caution, info). */
+  alerts?: LogAlert[];
 }
 
+/** GET /api/contracts/:id/log — newest entries first, a page at a time; figures are over the whole log. */
+export interface LogPage {
+  items: LogEntryView[];
+  figures: LogFigures;
+  /** Pass as `cursor` for the next (older) page; null on the last page. */
+  nextCursor: string | null;
+  /** Whether the viewer may add entries now, and of which kinds. */
+  canWrite: LogEntryKind[];
+}
+
+export const SIGN_OFF_STATUSES = ['proposed', 'disputed', 'agreed', 'superseded'] as const;
+export type SignOffStatus = (typeof SIGN_OFF_STATUSES)[number];
+
+/**
+ * One round of sign-off: the grazier's proposal from the log, and the grower's answer. A dispute is
+ * answered by the grazier accepting the counter (agreed) or proposing again (this round 'superseded').
+ */
 export interface SignOffView {
-  status: 'proposed' | 'disputed' | 'agreed';
+  // id, round, byDay, comment and agreedBy came with the sign-off API; optional only so values typed
+  // against the first draft still compile — the server always sends them.
+  id?: string;
+  /** 1, 2, … — a new round for each proposal. */
+  round?: number;
+  /** 'superseded' is new: a disputed round the grazier answered by proposing again. */
+  status: SignOffStatus;
   proposedHeadDays: number;
   proposedAt: string;
+  /** The day-by-day breakdown of the proposed head-days, in the block's zone. */
+  byDay?: HeadDaysByDay[];
+  /** The grazier's note with the proposal. */
+  comment?: string | null;
   counterHeadDays: number | null;
   disputeComment: string | null;
   disputedAt: string | null;
   agreedHeadDays: number | null;
   agreedAt: string | null;
+  /** Who agreed the figure last: the grower approving, or the grazier accepting the counter. */
+  agreedBy?: ContractParty | null;
+  /** The grazier's name (who proposed) and the grower's (who approved or countered), locked with the figure. */
   grazierName: string;
   growerName: string | null;
+}
+
+export const AMENDMENT_STATUSES = ['proposed', 'agreed', 'withdrawn', 'declined', 'void'] as const;
+export type AmendmentStatus = (typeof AMENDMENT_STATUSES)[number];
+
+export interface AmendmentView {
+  id: string;
+  /** The terms version this amendment becomes once both sign. */
+  version: number;
+  status: AmendmentStatus;
+  proposedBy: ContractParty;
+  proposedByName: string;
+  reason: string;
+  /** Each changed term with its old and new value in words. */
+  changes: Array<{ field: AmendableTerm | 'agreedHeadDays'; label: string; from: string; to: string }>;
+  /** The amended terms' canonical text and its SHA-256: what each party signs (send termsHash with the signature). */
+  termsText: string;
+  termsHash: string;
+  /** The agreed head-days this amendment sets, when it corrects them. */
+  agreedHeadDays: number | null;
+  signatures: SignatureView[];
+  createdAt: string;
+  decidedAt: string | null;
+}
+
+/** What the signed-in viewer is to this contract and may do next (the server's rules, for the buttons). */
+export interface ContractViewerFacts {
+  party: ContractParty | null;
+  /** The viewer has to sign the current terms or the pending amendment. */
+  mustSign: boolean;
+  canCancel: boolean;
+  canAmend: boolean;
+  /** Sign-off actions open to the viewer now. */
+  signOffActions: SignOffAction[];
 }
 
 export interface ContractView extends BidTermsView {
@@ -191,9 +353,33 @@ export interface ContractView extends BidTermsView {
   createdAt: string;
   /** Version of the terms (1, then +1 per amendment both signed). */
   termsVersion?: number;
-  /** SHA-256 of the canonical terms text each party signs. */
+  /** SHA-256 (hex) of the canonical terms text each party signs (lib/contract-terms canonicalTermsText). */
   termsHash?: string;
+  /** The canonical terms text itself (GET /api/contracts/:id only; lists leave it out). */
+  termsText?: string;
+  /** Signatures on the terms in force (termsVersion). */
   signatures?: SignatureView[];
+  /** The cautions shown with the terms, as signed. */
   cautions?: Caution[];
   agreedHeadDays?: number | null;
+  agreedAt?: string | null;
+  residualHeightIn?: number | null;
+  restrictions?: { sprayRecords: SprayRecord[]; earliestSafeDate: string | null };
+  /** An amendment waiting for signatures; until both sign it the terms above stand. */
+  pendingAmendment?: AmendmentView | null;
+  /** Every amendment, oldest first (GET /api/contracts/:id only). */
+  amendments?: AmendmentView[];
+  /** The latest sign-off round, or null before the grazier proposed. */
+  signOff?: SignOffView | null;
+  /** Every sign-off round, oldest first (GET /api/contracts/:id only). */
+  signOffHistory?: SignOffView[];
+  grazingStartedAt?: string | null;
+  cancellation?: { by: ContractParty; byName: string; reason: string; at: string } | null;
+  viewer?: ContractViewerFacts;
+}
+
+export interface ContractListResponse {
+  items: ContractView[];
+  /** Pass as `cursor` for the next page; null on the last page. */
+  nextCursor: string | null;
 }

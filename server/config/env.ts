@@ -39,7 +39,29 @@ const envSchema = yup.object({
     .test('one-address', 'MAIL_FROM must be one address like "Fieldfold <no-reply@example.com>"', (v) => v === undefined || parseFrom(v) !== null)
     .default(DEFAULT_MAIL_FROM),
   MAIL_UI_PORT: port('MAIL_UI_PORT'),
+  ...paymentsEnv(),
 });
+
+// Payments: the official SDK talks to the local fake (server/fakes/payments) unless a real secret key is set and
+// no PAYMENTS_API_URL points elsewhere. The webhook signing secret is shared by the fake (which signs) and the
+// server (which verifies); when unset, both read the same generated file in DATA_DIR.
+function paymentsEnv() {
+  return {
+    PAYMENTS_SECRET_KEY: yup.string().matches(/^\S+$/, 'PAYMENTS_SECRET_KEY must not contain spaces'),
+    PAYMENTS_API_URL: yup.string().url('PAYMENTS_API_URL must be a URL like http://127.0.0.1:12111'),
+    PAYMENTS_FAKE_PORT: yup.number().typeError('PAYMENTS_FAKE_PORT must be a port number').integer().min(0).max(65535).default(12111),
+    PAYMENTS_FAKE_HOST: yup.string().default('127.0.0.1'),
+    PAYMENTS_WEBHOOK_SECRET: yup.string().min(16, 'PAYMENTS_WEBHOOK_SECRET must be at least 16 characters (the API issues whsec_…)'),
+    PAYMENTS_WEBHOOK_URL: yup.string().url('PAYMENTS_WEBHOOK_URL must be a URL like http://127.0.0.1:8080/api/webhooks/payments'),
+    PAYMENTS_WEBHOOK_TOLERANCE: yup
+      .number()
+      .typeError('PAYMENTS_WEBHOOK_TOLERANCE must be a number of seconds')
+      .integer()
+      .min(1, 'PAYMENTS_WEBHOOK_TOLERANCE must be at least 1 second')
+      .max(3600, 'PAYMENTS_WEBHOOK_TOLERANCE must be at most 3600 seconds')
+      .default(300),
+  };
+}
 
 export interface Config {
   port: number;
@@ -59,14 +81,39 @@ export interface Config {
   mailFrom: { name: string; address: string };
   /** The local mail sink's inbox page (npm start sets it), named in the start-up line; null elsewhere. */
   mailUiPort: number | null;
+  payments: PaymentsConfig;
 }
+
+export interface PaymentsConfig {
+  /** 'hosted' only with a real key and no PAYMENTS_API_URL; otherwise the SDK is pointed at `apiUrl`. */
+  mode: 'fake' | 'hosted';
+  secretKey: string;
+  /** The API base the SDK uses in fake mode (http://127.0.0.1:PAYMENTS_FAKE_PORT unless PAYMENTS_API_URL). */
+  apiUrl: string | null;
+  webhookSecret: string;
+  /** Oldest signed timestamp a webhook may carry, in seconds (the SDK's default is 300). */
+  webhookToleranceSeconds: number;
+}
+
+/** What the standalone payments fake (server/fakes/payments/main.ts) needs. */
+export interface PaymentsFakeConfig {
+  port: number;
+  host: string;
+  dataDir: string;
+  webhookUrl: string;
+  webhookSecret: string;
+}
+
+/** The fake accepts any test-looking key; this one is used when none is configured. */
+export const FAKE_SECRET_KEY = 'sk_test_fieldfold_local_fake';
 
 export class ConfigError extends Error {}
 
-export function loadConfig(env: NodeJS.ProcessEnv = process.env, root = process.cwd()): Config {
-  let parsed: yup.InferType<typeof envSchema>;
+type Env = yup.InferType<typeof envSchema>;
+
+function parseEnv(env: NodeJS.ProcessEnv): Env {
   try {
-    parsed = envSchema.validateSync(
+    return envSchema.validateSync(
       Object.fromEntries(Object.entries(env).filter(([k, v]) => k in envSchema.fields && v !== '')),
       { abortEarly: false },
     );
@@ -74,6 +121,10 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, root = process.
     const errors = err instanceof yup.ValidationError ? err.errors.join('; ') : String(err);
     throw new ConfigError(`Fieldfold cannot start: ${errors}`);
   }
+}
+
+export function loadConfig(env: NodeJS.ProcessEnv = process.env, root = process.cwd()): Config {
+  const parsed = parseEnv(env);
   const dataDir = path.resolve(root, parsed.DATA_DIR);
   fs.mkdirSync(dataDir, { recursive: true });
   return {
@@ -91,7 +142,45 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, root = process.
     smtp: parsed.SMTP_PORT === undefined ? null : { host: parsed.SMTP_HOST, port: parsed.SMTP_PORT },
     mailFrom: parseFrom(parsed.MAIL_FROM)!,
     mailUiPort: parsed.MAIL_UI_PORT ?? null,
+    payments: paymentsConfig(parsed, dataDir),
   };
+}
+
+function paymentsConfig(parsed: Env, dataDir: string): PaymentsConfig {
+  const key = parsed.PAYMENTS_SECRET_KEY;
+  const hosted = key !== undefined && /^sk_(live|test)_/.test(key) && parsed.PAYMENTS_API_URL === undefined;
+  return {
+    mode: hosted ? 'hosted' : 'fake',
+    secretKey: key ?? FAKE_SECRET_KEY,
+    apiUrl: hosted ? null : (parsed.PAYMENTS_API_URL ?? `http://127.0.0.1:${parsed.PAYMENTS_FAKE_PORT}`),
+    webhookSecret: parsed.PAYMENTS_WEBHOOK_SECRET ?? webhookSecretFile(dataDir),
+    webhookToleranceSeconds: parsed.PAYMENTS_WEBHOOK_TOLERANCE,
+  };
+}
+
+export function loadPaymentsFakeConfig(env: NodeJS.ProcessEnv = process.env, root = process.cwd()): PaymentsFakeConfig {
+  const parsed = parseEnv(env);
+  const dataDir = path.resolve(root, parsed.DATA_DIR);
+  fs.mkdirSync(dataDir, { recursive: true });
+  return {
+    port: parsed.PAYMENTS_FAKE_PORT,
+    host: parsed.PAYMENTS_FAKE_HOST,
+    dataDir: path.join(dataDir, 'payments-fake'),
+    webhookUrl: parsed.PAYMENTS_WEBHOOK_URL ?? `http://127.0.0.1:${parsed.PORT}/api/webhooks/payments`,
+    webhookSecret: parsed.PAYMENTS_WEBHOOK_SECRET ?? webhookSecretFile(dataDir),
+  };
+}
+
+// Like the token secret: made once, kept beside the database. The server and the fake may start together, so the
+// file is created exclusively and whoever loses the race reads the winner's secret.
+function webhookSecretFile(dataDir: string): string {
+  const file = path.join(dataDir, 'payments-webhook-secret');
+  try {
+    fs.writeFileSync(file, `whsec_${crypto.randomBytes(24).toString('base64url')}`, { mode: 0o600, flag: 'wx' });
+  } catch (err) {
+    if ((err as NodeJS.ErrnoException).code !== 'EEXIST') throw err;
+  }
+  return fs.readFileSync(file, 'utf8').trim();
 }
 
 // Out of the box there is no secret to configure: one is made on first start and kept beside the database,

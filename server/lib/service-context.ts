@@ -4,6 +4,7 @@ import type { AppLinks } from './mail/links';
 import type { PhotoStore } from './storage/photo-store';
 import type { FileStore } from './storage/file-store';
 import type { PdfRenderer } from './pdf/pdf-renderer';
+import type { PaymentsPort } from './payments';
 
 /**
  * What the business modules need from the outside world, built once by createApp from AppDeps. Every hosted
@@ -24,6 +25,8 @@ export interface ServiceContext {
   documents: FileStore;
   /** Renders the grazing-log and invoice PDFs; call it outside write transactions. */
   pdf: PdfRenderer;
+  /** The payments API (server/lib/payments): the SDK adapter on the local fake or the hosted API; never inside a write transaction. */
+  payments: PaymentsPort;
   /** Signs the short-lived photo access tokens (the sign-in secret; tokens carry their own `typ`). */
   tokenSecret: string;
 }

@@ -1,15 +1,15 @@
-import { EmptyState, Screen } from '@/components/ui';
+import { Screen } from '@/components/ui';
+import { InvoiceList } from '@/components/invoices/invoice-list';
+import { ReadyToInvoice } from '@/components/invoices/ready-to-invoice';
 import { useActiveRole } from '@/hooks/auth/session';
 
 export default function InvoicesScreen() {
   const role = useActiveRole();
+  const grazier = role === 'grazier';
   return (
-    <Screen title="Invoices" subtitle="Head-days signed off, billed and paid">
-      <EmptyState title="No invoices yet">
-        {role === 'grazier'
-          ? 'After both sides sign off a grazing log you can invoice the agreed head-days here.'
-          : 'Invoices for grazing on your blocks arrive here once the log is signed off.'}
-      </EmptyState>
+    <Screen title="Invoices" subtitle={grazier ? 'Receivables: what growers owe you for grazing' : 'Payables: what you owe graziers for grazing'}>
+      {grazier ? <ReadyToInvoice /> : null}
+      <InvoiceList side={grazier ? 'receivable' : 'payable'} />
     </Screen>
   );
 }

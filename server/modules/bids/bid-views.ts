@@ -32,17 +32,25 @@ export function bidInputOf(b: Bid): BidInput {
  * Bids as the API returns them, each normalised against its block as it stands now (lib/grazing/bid-compare),
  * with the grazier's record and, for a live bid, the block rules it no longer fits.
  */
-export async function bidViews(em: EntityManager, bids: Bid[]): Promise<BidView[]> {
+export async function bidViews(em: EntityManager, bids: Bid[], knownBlocks: Block[] = []): Promise<BidView[]> {
   if (bids.length === 0) return [];
-  const blockIds = [...new Set(bids.map((b) => b.blockId))];
+  const known = new Set(knownBlocks.map((b) => b.id));
+  const blockIds = [...new Set(bids.map((b) => b.blockId))].filter((id) => !known.has(id));
   const grazierIds = [...new Set(bids.map((b) => b.grazierId))];
   const [blocks, graziers, records] = await Promise.all([
-    em.findBy(Block, { id: In(blockIds) }),
-    em.findBy(Account, { id: In(grazierIds) }),
+    blockIds.length ? em.findBy(Block, { id: In(blockIds) }) : Promise.resolve([]),
+    em.find(Account, { where: { id: In(grazierIds) }, select: { id: true, name: true, businessName: true } }),
     completedContracts(em, grazierIds),
   ]);
-  const blockById = new Map(blocks.map((b) => [b.id, b]));
+  const blockById = new Map([...knownBlocks, ...blocks].map((b) => [b.id, b]));
   const grazierById = new Map(graziers.map((g) => [g.id, g]));
+  // A block's bids share its cautions species by species: work them out once per block and species.
+  const cautions = new Map<string, ReturnType<typeof cautionsForBlock>>();
+  const cautionsFor = (block: Block, species: Bid['species']) => {
+    const key = `${block.id}/${species}`;
+    if (!cautions.has(key)) cautions.set(key, cautionsForBlock(block, { species }));
+    return cautions.get(key)!;
+  };
   return bids.map((bid) => {
     const block = blockById.get(bid.blockId)!;
     const grazier = grazierById.get(bid.grazierId);
@@ -61,7 +69,7 @@ export async function bidViews(em: EntityManager, bids: Bid[]): Promise<BidView[
       note: bid.note,
       normalised: normaliseBid(bid, block),
       conflicts: bid.status === 'live' ? stayConflicts(bid, block) : [],
-      cautions: cautionsForBlock(block, { species: bid.species }),
+      cautions: cautionsFor(block, bid.species),
       block: blockSummary(block),
       createdAt: bid.createdAt.toISOString(),
       updatedAt: bid.updatedAt.toISOString(),

@@ -1,6 +1,7 @@
 import { Router } from 'express';
 import { requireAuth, requireRole, signedIn } from '../../lib/http/auth';
 import { param } from '../../lib/http/params';
+import { heavyReads } from '../../lib/http/read-lane';
 import type { ServiceContext } from '../../lib/service-context';
 import { awardBid, getBid, listBlockBids, listMyBids, placeBid, updateBid, withdrawBid } from './bids.service';
 
@@ -15,11 +16,11 @@ export function bidsRouter(ctx: ServiceContext): Router {
   });
 
   router.get('/blocks/:id/bids', auth, async (req, res) => {
-    res.json(await listBlockBids(ctx, signedIn(req), param(req, 'id')));
+    res.json(await heavyReads.run(() => listBlockBids(ctx, signedIn(req), param(req, 'id'), { ...req.query })));
   });
 
   router.get('/bids', auth, grazier, async (req, res) => {
-    res.json(await listMyBids(ctx, signedIn(req), { ...req.query }));
+    res.json(await heavyReads.run(() => listMyBids(ctx, signedIn(req), { ...req.query })));
   });
 
   router.get('/bids/:id', auth, async (req, res) => {

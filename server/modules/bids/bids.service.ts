@@ -19,7 +19,8 @@ import { normaliseBid } from '../../../lib/grazing/bid-compare';
 import { GrazingInputError } from '../../../lib/grazing/errors';
 import { parseRate, rateToString } from '../../../lib/money';
 import { todayIn } from '../../../lib/day-keys';
-import { BID_STATUSES, bidInputSchema, type BidInput, type BidStatus, type BidView } from '../../../lib/schemas/bid';
+import { bidInputSchema, bidListQuerySchema, DEFAULT_BID_PAGE_SIZE, type BidInput, type BidListQuery, type BidView } from '../../../lib/schemas/bid';
+import type { Page } from '../../../lib/schemas/paging';
 import type { ContractView } from '../../../lib/schemas/contract';
 
 // Bids: a grazier offers a stay on an open block; the grower compares the bids and awards one.
@@ -129,37 +130,40 @@ export async function getBid(ctx: ServiceContext, viewer: Account, bidId: string
   return (await bidViews(ctx.ds.manager, [bid]))[0];
 }
 
+/** The page of `bids` a list query asks for, oldest or newest first, and how many there are. */
+async function bidPage(ctx: ServiceContext, where: Record<string, unknown>, q: BidListQuery, newestFirst: boolean, block?: Block): Promise<Page<BidView>> {
+  const page = q.page ?? 1;
+  const pageSize = q.pageSize ?? DEFAULT_BID_PAGE_SIZE;
+  const em = ctx.ds.manager;
+  const filter = { ...where, ...(q.status ? { status: q.status } : {}) };
+  const bids = await em.find(Bid, { where: filter, order: { createdAt: newestFirst ? 'DESC' : 'ASC', id: 'ASC' }, skip: (page - 1) * pageSize, take: pageSize });
+  // A first page that is not full holds them all: no count needed.
+  const total = page === 1 && bids.length < pageSize ? bids.length : await em.countBy(Bid, filter);
+  return { items: await bidViews(em, bids, block ? [block] : []), total, page, pageSize };
+}
+
 /**
- * Bids on a block. The owner sees all of them (every state), normalised for comparison; anyone else sees
- * only their own — and if they may not see the block and have no bid on it, the block does not exist (404).
+ * Bids on a block, oldest first, a page at a time. The owner sees all of them (every state), normalised for
+ * comparison; anyone else sees only their own — and if they may not see the block and have no bid on it,
+ * the block does not exist (404).
  */
-export async function listBlockBids(ctx: ServiceContext, viewer: Account, blockId: string): Promise<{ items: BidView[] }> {
+export async function listBlockBids(ctx: ServiceContext, viewer: Account, blockId: string, query: unknown = {}): Promise<Page<BidView>> {
+  const q = (await check(bidListQuerySchema, query)) as BidListQuery;
   const em = ctx.ds.manager;
   const block = await em.findOneBy(Block, { id: blockId });
   if (!block) throw AppError.notFound('Block');
-  let bids: Bid[];
-  if (isOwner(viewer, block)) {
-    bids = await em.find(Bid, { where: { blockId }, order: { createdAt: 'ASC', id: 'ASC' } });
-  } else {
-    bids = await em.find(Bid, { where: { blockId, grazierId: viewer.id }, order: { createdAt: 'ASC', id: 'ASC' } });
-    if (bids.length === 0 && !canViewBlock(viewer, block, await blockFacts(em, viewer, block))) throw AppError.notFound('Block');
+  if (isOwner(viewer, block)) return bidPage(ctx, { blockId }, q, false, block);
+  const own = await bidPage(ctx, { blockId, grazierId: viewer.id }, q, false, block);
+  if (own.total === 0 && !canViewBlock(viewer, block, await blockFacts(em, viewer, block)) && !(await em.existsBy(Bid, { blockId, grazierId: viewer.id }))) {
+    throw AppError.notFound('Block');
   }
-  return { items: await bidViews(em, bids) };
+  return own;
 }
 
-/** A grazier's own bids across blocks, newest first; `status` narrows them. */
-export async function listMyBids(ctx: ServiceContext, viewer: Account, query: Record<string, unknown>): Promise<{ items: BidView[] }> {
-  const unknown = Object.keys(query).filter((k) => k !== 'status');
-  if (unknown.length > 0) throw AppError.badRequest('Some fields need attention', Object.fromEntries(unknown.map((k) => [k, `Unknown field: ${k}`])));
-  const status = query.status;
-  if (status !== undefined && !(typeof status === 'string' && (BID_STATUSES as readonly string[]).includes(status))) {
-    throw AppError.badRequest('Some fields need attention', { status: `Status must be one of: ${BID_STATUSES.join(', ')}` });
-  }
-  const bids = await ctx.ds.manager.find(Bid, {
-    where: { grazierId: viewer.id, ...(status ? { status: status as BidStatus } : {}) },
-    order: { createdAt: 'DESC', id: 'ASC' },
-  });
-  return { items: await bidViews(ctx.ds.manager, bids) };
+/** A grazier's own bids across blocks, newest first, a page at a time; `status` narrows them. */
+export async function listMyBids(ctx: ServiceContext, viewer: Account, query: unknown): Promise<Page<BidView>> {
+  const q = (await check(bidListQuerySchema, query)) as BidListQuery;
+  return bidPage(ctx, { grazierId: viewer.id }, q, true);
 }
 
 /**

@@ -115,19 +115,42 @@ export async function blockViews(ctx: ServiceContext, viewer: Account, blocks: B
   if (blocks.length === 0) return [];
   const ids = blocks.map((b) => b.id);
   const ownerIds = [...new Set(blocks.map((b) => b.ownerId))];
-  const [owners, photos, liveBids] = await Promise.all([
-    em.findBy(Account, { id: In(ownerIds) }),
+  const ownIds = blocks.filter((b) => isOwner(viewer, b)).map((b) => b.id);
+  // Only what the views show: the owners' names, the viewer's own live bids, and live-bid counts for the owner.
+  // status = 'live' is written out so SQLite can use the partial unique index on live bids.
+  const [owners, photos, myLiveBids, liveCounts] = await Promise.all([
+    em.find(Account, { where: { id: In(ownerIds) }, select: { id: true, name: true, businessName: true } }),
     em.find(BlockPhoto, { where: { blockId: In(ids) }, order: { position: 'ASC' } }),
-    em.find(Bid, { where: { blockId: In(ids), status: 'live' }, select: { id: true, blockId: true, grazierId: true } }),
+    em
+      .createQueryBuilder(Bid, 'bid')
+      .select('bid.id', 'id')
+      .addSelect('bid.block_id', 'blockId')
+      .where("bid.status = 'live'")
+      .andWhere('bid.grazier_id = :viewer AND bid.block_id IN (:...ids)', { viewer: viewer.id, ids })
+      .getRawMany<{ id: string; blockId: string }>(),
+    ownIds.length === 0
+      ? Promise.resolve([])
+      : em
+          .createQueryBuilder(Bid, 'bid')
+          .select('bid.block_id', 'blockId')
+          .addSelect('COUNT(*)', 'n')
+          .where("bid.status = 'live'")
+          .andWhere('bid.block_id IN (:...ownIds)', { ownIds })
+          .groupBy('bid.block_id')
+          .getRawMany<{ blockId: string; n: number }>(),
   ]);
   const ownerById = new Map(owners.map((o) => [o.id, o]));
+  const myLiveBidByBlock = new Map(myLiveBids.map((x) => [x.blockId, x.id]));
+  const liveCountByBlock = new Map(liveCounts.map((x) => [x.blockId, Number(x.n)]));
+  const photosByBlock = new Map<string, BlockPhoto[]>();
+  for (const p of photos) photosByBlock.set(p.blockId, [...(photosByBlock.get(p.blockId) ?? []), p]);
   const flock = flockOf(viewer);
 
   return blocks.map((b) => {
     const owner = ownerById.get(b.ownerId);
     const mine = isOwner(viewer, b);
     const figures = viewerFigures(viewer, b);
-    const myLiveBid = liveBids.find((x) => x.blockId === b.id && x.grazierId === viewer.id) ?? null;
+    const myLiveBidId = myLiveBidByBlock.get(b.id) ?? null;
     return {
       id: b.id,
       status: b.status,
@@ -145,17 +168,15 @@ export async function blockViews(ctx: ServiceContext, viewer: Account, blocks: B
       daysForMyFlock: figures.daysForMyFlock,
       flockFit: figures.flockFit,
       cautions: cautionsForBlock(b, flock && !mine ? { species: flock.species } : {}),
-      photos: photos
-        .filter((p) => p.blockId === b.id)
-        .map((p) => ({
+      photos: (photosByBlock.get(b.id) ?? []).map((p) => ({
           id: p.id,
           url: photoUrl(b.id, p.id, signPhotoAccess(ctx.tokenSecret, { photoId: p.id, blockId: b.id, viewerId: viewer.id })),
           mimeType: p.mimeType,
           sizeBytes: p.sizeBytes,
           createdAt: p.createdAt.toISOString(),
         })),
-      liveBidCount: mine ? liveBids.filter((x) => x.blockId === b.id).length : null,
-      viewer: { isOwner: mine, canBid: canBidOn(viewer, b) && !myLiveBid, myLiveBidId: myLiveBid?.id ?? null },
+      liveBidCount: mine ? (liveCountByBlock.get(b.id) ?? 0) : null,
+      viewer: { isOwner: mine, canBid: canBidOn(viewer, b) && !myLiveBidId, myLiveBidId },
       publishedAt: b.publishedAt?.toISOString() ?? null,
       awardedAt: b.awardedAt?.toISOString() ?? null,
       createdAt: b.createdAt.toISOString(),

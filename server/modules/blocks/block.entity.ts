@@ -76,6 +76,17 @@ export class Block {
   @Column('varchar', { name: 'earliest_safe_date', length: 10, nullable: true })
   earliestSafeDate: string | null;
 
+  /** First and last day animals may be on (lib/grazing/graze-window grazeSpan), stored on every save for the market's SQL. */
+  @Column('varchar', { name: 'graze_from', length: 10 })
+  grazeFrom: string;
+
+  @Column('varchar', { name: 'graze_until', length: 10 })
+  grazeUntil: string;
+
+  /** lb DM the animals may take: acres × lb DM/ac × utilisation (lib/grazing/capacity allowableForage), stored on every save. */
+  @Column('real', { name: 'allowable_lb' })
+  allowableLb: number;
+
   @Column('boolean', { name: 'water_on_site' })
   waterOnSite: boolean;
 

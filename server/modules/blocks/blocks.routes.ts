@@ -3,17 +3,18 @@ import multer from 'multer';
 import { AppError } from '../../lib/errors/app-error';
 import { requireAuth, requireRole, signedIn } from '../../lib/http/auth';
 import { param } from '../../lib/http/params';
+import { heavyReads } from '../../lib/http/read-lane';
 import type { ServiceContext } from '../../lib/service-context';
 import { createBlock, getBlock, listBlocks, publishBlock, updateBlock, withdrawBlock } from './blocks.service';
 import { addPhoto, assertCanAddPhoto, deletePhoto, openPhoto } from './block-photos.service';
 import { verifyPhotoAccess } from './photo-access';
 import { MAX_PHOTO_BYTES } from '../../../lib/schemas/block';
 
-const PHOTO_FIELD = 'photo';
+export const PHOTO_FIELD = 'photo';
 const MB = MAX_PHOTO_BYTES / (1024 * 1024);
 
 /** multer's own errors carry no HTTP status; give each one the status and field the API promises. */
-function uploadError(err: unknown): AppError {
+export function uploadError(err: unknown): AppError {
   if (err instanceof multer.MulterError) {
     if (err.code === 'LIMIT_FILE_SIZE') return new AppError(413, 'too_large', `Each photo may be at most ${MB} MB`, { [PHOTO_FIELD]: `This photo is larger than ${MB} MB` });
     if (err.code === 'LIMIT_UNEXPECTED_FILE') return AppError.badRequest(`Send the photo in the form field "${PHOTO_FIELD}"`, { [err.field || PHOTO_FIELD]: `Send one photo in the form field "${PHOTO_FIELD}"` });
@@ -34,8 +35,9 @@ export function blocksRouter(ctx: ServiceContext): Router {
     res.status(201).json({ block: await createBlock(ctx, signedIn(req), req.body) });
   });
 
+  // The market is the heaviest read: it takes its turn in the read lane so writes never queue behind searches.
   router.get('/blocks', auth, async (req, res) => {
-    res.json(await listBlocks(ctx, signedIn(req), { ...req.query }));
+    res.json(await heavyReads.run(() => listBlocks(ctx, signedIn(req), { ...req.query })));
   });
 
   router.get('/blocks/:id', auth, async (req, res) => {

@@ -12,7 +12,8 @@ import { Bid } from '../bids/bid.entity';
 import { Contract } from '../contracts/contract.entity';
 import { Block } from './block.entity';
 import { assertCanViewBlock, assertEditable, assertOwnsBlock, type BlockFacts } from './blocks.policy';
-import { blockInputOf, blockViews, homeOf, flockOf, viewerFigures, type ViewerFigures } from './block-views';
+import { blockInputOf, blockViews, homeOf, flockOf } from './block-views';
+import { findBlockPage, type ListViewer } from './block-list';
 import {
   blockInputSchema,
   blockListQuerySchema,
@@ -23,7 +24,9 @@ import {
   type BlockView,
 } from '../../../lib/schemas/block';
 import { blockLbDmPerAcre } from '../../../lib/grazing/block-forage';
-import { publishProblem, stayConflicts } from '../../../lib/grazing/graze-window';
+import { grazeSpan, publishProblem, stayConflicts } from '../../../lib/grazing/graze-window';
+import { allowableForage, dailyIntakeLb } from '../../../lib/grazing/capacity';
+import { intakeForFlock } from '../../../lib/grazing/flock-intake';
 import { earliestSafeDate } from '../../../lib/grazing/safety';
 import { todayIn } from '../../../lib/day-keys';
 
@@ -41,9 +44,11 @@ export async function validBlockRecord(body: unknown): Promise<BlockRecord> {
   return blockRecord(await checkBlock(body));
 }
 
-/** The columns a validated input gives, including the two figures the server derives. */
+/** The columns a validated input gives, including the figures the server derives (each exactly lib's result). */
 function blockRecord(input: BlockInput): BlockRecord {
   const sprayRecords = input.sprayRecords ?? [];
+  const lbDmPerAcre = blockLbDmPerAcre(input);
+  const span = grazeSpan({ ...input, sprayRecords });
   return {
     name: input.name,
     crop: input.crop,
@@ -56,7 +61,7 @@ function blockRecord(input: BlockInput): BlockRecord {
     forageSamples: input.forageMethod === 'samples' ? input.forageSamples! : null,
     forageHeight: input.forageMethod === 'height' ? input.forageHeight! : null,
     // Exactly the lib result: what the calculator shows for the same samples or heights.
-    lbDmPerAcre: blockLbDmPerAcre(input),
+    lbDmPerAcre,
     targetUtilizationPct: input.targetUtilizationPct,
     residualHeightIn: input.residualHeightIn ?? null,
     windowStart: input.windowStart,
@@ -65,6 +70,9 @@ function blockRecord(input: BlockInput): BlockRecord {
     harvestDate: input.harvestDate ?? null,
     sprayRecords,
     earliestSafeDate: earliestSafeDate(sprayRecords),
+    grazeFrom: span.from,
+    grazeUntil: span.until,
+    allowableLb: allowableForage({ acres: input.acres, lbDmPerAcre, utilizationPct: input.targetUtilizationPct }).allowableLb,
     waterOnSite: input.waterOnSite,
     perimeterFence: input.perimeterFence,
     truckAccess: input.truckAccess,
@@ -220,23 +228,11 @@ function listView(viewer: Account, asked: BlockListQuery['view']): 'mine' | 'mar
   throw AppError.forbidden('Only growers and graziers have blocks to list');
 }
 
-type Sortable = { block: Block; fig: ViewerFigures };
-
-const SORTS: Record<NonNullable<BlockListQuery['sort']>, (a: Sortable, b: Sortable) => number> = {
-  distance: (a, b) => (a.fig.distanceMiles ?? Infinity) - (b.fig.distanceMiles ?? Infinity),
-  window: (a, b) => (a.fig.span.from < b.fig.span.from ? -1 : a.fig.span.from > b.fig.span.from ? 1 : 0),
-  // Largest first: the grazier wants the most acres / most days of feed at the top.
-  acres: (a, b) => b.block.acres - a.block.acres,
-  days: (a, b) => (b.fig.daysForMyFlock ?? -1) - (a.fig.daysForMyFlock ?? -1),
-  newest: (a, b) => b.block.createdAt.getTime() - a.block.createdAt.getTime(),
-};
-
 /**
  * Growers get their own blocks (any state); graziers the open blocks of others that still have a day to
  * graze, filtered and sorted by what matters to a flock on the move. Figures that need the viewer's home
- * base or flock are refused with 400 when the profile lacks them, rather than silently ignored.
- * (Filters on distance and days run in memory over the open blocks: fine for a district's market; a
- * bounding-box prefilter in SQL is the next step if the market grows past a few thousand open blocks.)
+ * base or flock are refused with 400 when the profile lacks them, rather than silently ignored. The list
+ * runs in SQL and loads only the page (block-list.ts).
  */
 export async function listBlocks(ctx: ServiceContext, viewer: Account, rawQuery: unknown): Promise<BlockListResponse> {
   const q = (await check(blockListQuerySchema, rawQuery)) as BlockListQuery;
@@ -251,37 +247,15 @@ export async function listBlocks(ctx: ServiceContext, viewer: Account, rawQuery:
   if (q.status !== undefined && view === 'market') fields.status = 'The market lists open blocks only';
   if (Object.keys(fields).length > 0) throw AppError.badRequest('Some filters need a profile detail or do not apply', fields);
 
-  const qb = ctx.ds.getRepository(Block).createQueryBuilder('b');
-  if (view === 'mine') {
-    qb.where('b.owner_id = :me', { me: viewer.id });
-    if (q.status) qb.andWhere('b.status = :status', { status: q.status });
-  } else {
-    qb.where("b.status = 'open'").andWhere('b.owner_id != :me', { me: viewer.id });
-  }
-  if (q.minAcres !== undefined) qb.andWhere('b.acres >= :minAcres', { minAcres: q.minAcres });
-  if (q.maxAcres !== undefined) qb.andWhere('b.acres <= :maxAcres', { maxAcres: q.maxAcres });
-  const blocks = await qb.getMany();
-
-  const rows: Sortable[] = blocks
-    .map((block) => ({ block, fig: viewerFigures(viewer, block) }))
-    .filter(({ block, fig }) => {
-      // The market shows only blocks with at least one day left to graze at the block.
-      if (view === 'market' && fig.span.until <= today(ctx, block)) return false;
-      if (q.species && !block.speciesAllowed.includes(q.species)) return false;
-      // A stay fits when the two ranges share at least one whole day: max(starts) < min(ends).
-      const from = q.from && q.from > fig.span.from ? q.from : fig.span.from;
-      const until = q.to && q.to < fig.span.until ? q.to : fig.span.until;
-      if ((q.from || q.to) && !(from < until)) return false;
-      if (q.maxMiles !== undefined && !(fig.distanceMiles! <= q.maxMiles)) return false;
-      if (q.minDays !== undefined && !(fig.daysForMyFlock! >= q.minDays)) return false;
-      return true;
-    });
-
+  const intake = flock ? intakeForFlock(flock.species, flock.animalClass) : null;
+  const listViewer: ListViewer = {
+    id: viewer.id,
+    home,
+    flock: flock && intake ? { intakeLbPerHead: dailyIntakeLb({ bodyWeightLb: flock.bodyWeightLb, intakePctBodyWeight: intake.pct }), headCount: flock.headCount } : null,
+  };
   const sort = q.sort ?? (view === 'mine' ? 'newest' : home ? 'distance' : 'window');
-  rows.sort((a, b) => SORTS[sort](a, b) || a.block.name.localeCompare(b.block.name) || a.block.id.localeCompare(b.block.id));
-
   const page = q.page ?? 1;
   const pageSize = q.pageSize ?? 20;
-  const slice = rows.slice((page - 1) * pageSize, page * pageSize).map((r) => r.block);
-  return { items: await blockViews(ctx, viewer, slice), total: rows.length, page, pageSize };
+  const { blocks, total } = await findBlockPage(ctx.ds, ctx.now(), listViewer, view, { ...q, sort, page, pageSize });
+  return { items: await blockViews(ctx, viewer, blocks), total, page, pageSize };
 }

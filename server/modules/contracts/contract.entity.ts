@@ -1,6 +1,7 @@
 import { Column, CreateDateColumn, Entity, PrimaryColumn, UpdateDateColumn } from 'typeorm';
 import type { BidService, FlockClass } from '../../../lib/schemas/bid';
-import type { ContractStatus } from '../../../lib/schemas/contract';
+import type { ContractParty, ContractStatus } from '../../../lib/schemas/contract';
+import type { ContractTerms } from '../../../lib/contract-terms';
 import type { ChargeBasis } from '../../../lib/money';
 import type { FlockSpecies } from '../../../lib/grazing/flock-intake';
 
@@ -66,6 +67,53 @@ export class Contract {
 
   @Column('varchar', { name: 'time_zone', length: 64 })
   timeZone: string;
+
+  /** Version of the terms in force; an amendment both parties signed moves it on. */
+  @Column('integer', { name: 'terms_version', default: 1 })
+  termsVersion: number;
+
+  /** The terms snapshot in force (lib/contract-terms); null only on rows made before it was kept. */
+  @Column('simple-json', { nullable: true })
+  terms: ContractTerms | null;
+
+  /** canonicalTermsText(terms) as it was when these terms were made: the text the signatures' hash is of. */
+  @Column('text', { name: 'terms_text', nullable: true })
+  termsText: string | null;
+
+  /** SHA-256 (hex) of termsText. */
+  @Column('varchar', { name: 'terms_hash', length: 64, nullable: true })
+  termsHash: string | null;
+
+  /** Head-days both parties agreed at sign-off (locked; an amendment both sign is the only way to change it). */
+  @Column('real', { name: 'agreed_head_days', nullable: true })
+  agreedHeadDays: number | null;
+
+  @Column('datetime', { name: 'agreed_at', nullable: true })
+  agreedAt: Date | null;
+
+  @Column('datetime', { name: 'grazing_started_at', nullable: true })
+  grazingStartedAt: Date | null;
+
+  @Column('datetime', { name: 'cancelled_at', nullable: true })
+  cancelledAt: Date | null;
+
+  @Column('varchar', { name: 'cancelled_by', length: 8, nullable: true })
+  cancelledBy: ContractParty | null;
+
+  @Column('text', { name: 'cancel_reason', nullable: true })
+  cancelReason: string | null;
+
+  /** Bumped by every change of the row; a use case's first write, so it holds the row while it decides. */
+  @Column('integer', { default: 0 })
+  revision: number;
+
+  /** The stored grazing-log PDF that shows the record as it stands (server/modules/documents). */
+  @Column('varchar', { name: 'log_document_id', length: 36, nullable: true })
+  logDocumentId: string | null;
+
+  /** What that file was made from (contract-documents.ts grazingLogSourceKey). */
+  @Column('varchar', { name: 'log_document_key', length: 120, nullable: true })
+  logDocumentKey: string | null;
 
   @CreateDateColumn({ name: 'created_at', type: 'datetime' })
   createdAt: Date;

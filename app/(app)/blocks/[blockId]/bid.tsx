@@ -2,7 +2,7 @@ import { Link, Stack, useLocalSearchParams, useRouter } from 'expo-router';
 import { EmptyState, ErrorState, LoadingState, Screen, Text } from '@/components/ui';
 import { BidForm } from '@/components/bids/bid-form';
 import { useBlock } from '@/hooks/api/blocks';
-import { useMyBids } from '@/hooks/api/bids';
+import { useBid } from '@/hooks/api/bids';
 import { useSession } from '@/hooks/auth/session';
 import { formatNumber } from '@/lib/format';
 
@@ -12,7 +12,7 @@ export default function BidScreen() {
   const router = useRouter();
   const { user } = useSession();
   const block = useBlock(blockId);
-  const mine = useMyBids();
+  const mine = useBid(block.data?.viewer.myLiveBidId);
 
   if (block.isPending) return <LoadingState label="Loading the block…" />;
   if (block.isError) return <ErrorState message={block.error.message} onRetry={() => block.refetch()} />;
@@ -20,7 +20,7 @@ export default function BidScreen() {
   const liveId = b.viewer.myLiveBidId;
   if (liveId && mine.isPending) return <LoadingState label="Loading your bid…" />;
   if (liveId && mine.isError) return <ErrorState message={mine.error.message} onRetry={() => mine.refetch()} />;
-  const bid = liveId ? mine.data?.find((x) => x.id === liveId) : undefined;
+  const bid = liveId && mine.data?.id === liveId ? mine.data : undefined;
 
   const back = (
     <Link href={`/blocks/${b.id}`}>

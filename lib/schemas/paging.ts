@@ -1,0 +1,33 @@
+import * as yup from 'yup';
+
+// Query-string numbers and the page fields every list shares. A list's work grows with its page, never with
+// the table: each list has a page-size cap, checked here for the app and the server alike.
+
+const QUERY_NUMBER = /^\s*\d+(\.\d+)?\s*$/;
+
+/** A number given as query text; "12abc", "", "-3" and repeated parameters are refused, not coerced. */
+export function queryNumber(label: string) {
+  return yup
+    .number()
+    .transform((_v: unknown, original: unknown) => (typeof original === 'string' && QUERY_NUMBER.test(original) ? Number(original) : original === undefined ? undefined : NaN))
+    .typeError(`${label} must be a number`);
+}
+
+/** `page` (from 1) and `pageSize` (1 to `maxPageSize`), both optional. */
+export function pageFields(maxPageSize: number) {
+  return {
+    page: queryNumber('Page').integer('Page must be a whole number').min(1, 'Page must be 1 or more').optional(),
+    pageSize: queryNumber('Page size')
+      .integer('Page size must be a whole number')
+      .min(1, 'Page size must be at least 1')
+      .max(maxPageSize, `Page size must be at most ${maxPageSize}`)
+      .optional(),
+  };
+}
+
+export interface Page<T> {
+  items: T[];
+  total: number;
+  page: number;
+  pageSize: number;
+}

@@ -1,0 +1,289 @@
+import { Brackets, In, type DataSource, type SelectQueryBuilder } from 'typeorm';
+import { Block } from './block.entity';
+import { distanceMilesSql } from '../../db/sql-functions';
+import { boundingBox, distanceMiles, type LatLng, type LatLngBox } from '../../../lib/geo';
+import { addDays, todayIn } from '../../../lib/day-keys';
+import { GRAZING_SPECIES, type BlockListQuery, type BlockSort, type GrazingSpecies } from '../../../lib/schemas/block';
+
+// GET /api/blocks in SQL: every filter, the sort and the page run in the database on indexed columns, and
+// only the page's blocks are loaded. The order is exactly the one the market always had — the sort's figure,
+// then the name as people read it (String#localeCompare), then the id — and SQLite cannot sort by the
+// locale's collation. So SQL finds the page by the figure alone, and where equal figures straddle the page's
+// edges it fetches just those rows' names (a few columns of the tied rows) and JS breaks the tie. The work
+// per request is bounded by the page, its tied neighbours and, for "nearest first", a disk holding the page.
+//
+// The pattern for every list that can grow (bids, contracts' log, invoices): a shared query schema with a
+// page-size cap; filters as SQL conditions on stored, indexed columns (derived figures stored on write by
+// lib/ functions); COUNT(*) for the total; ORDER BY an indexed column + LIMIT/OFFSET; load the page's rows by id.
+
+export type ListView = 'mine' | 'market';
+
+export interface ListViewer {
+  id: string;
+  home: LatLng | null;
+  /** The flock's daily intake per head (lib dailyIntakeLb) and head count: days of feed = allowable ÷ intake ÷ head. */
+  flock: { intakeLbPerHead: number; headCount: number } | null;
+}
+
+export interface ListAsk extends Omit<BlockListQuery, 'view' | 'sort' | 'page' | 'pageSize'> {
+  sort: BlockSort;
+  page: number;
+  pageSize: number;
+}
+
+export interface BlockPage {
+  blocks: Block[];
+  total: number;
+}
+
+type Qb = SelectQueryBuilder<Block>;
+
+/** Rows this far (relative) from a threshold on the allowable column are decided by the exact expression only. */
+const LOOSE = 1e-9;
+
+/**
+ * Which zones' "today" decides whether a block whose last day is today or tomorrow in UTC is still in the
+ * market. Local dates run from one day before to one day after the UTC date (UTC−12 … UTC+14), so only blocks
+ * whose last day is the UTC date or the next depend on their zone: a short index range.
+ */
+async function daysLeftCondition(ds: DataSource, nowMs: number): Promise<{ sql: string; params: Record<string, unknown> }> {
+  const utc = todayIn('UTC', nowMs);
+  const next = addDays(utc, 1);
+  const rows: Array<{ tz: string }> = await ds
+    .getRepository(Block)
+    .createQueryBuilder('b')
+    .select('DISTINCT b.time_zone', 'tz')
+    .where("b.status = 'open'")
+    .andWhere('b.graze_until >= :utc AND b.graze_until <= :next', { utc, next })
+    .getRawMany();
+  // A block is in while its last day is after today at the block.
+  const zones = rows.map((r) => ({ tz: r.tz, today: todayIn(r.tz, nowMs) }));
+  const lastDayTomorrow = zones.filter((z) => z.today < next).map((z) => z.tz);
+  const lastDayToday = zones.filter((z) => z.today < utc).map((z) => z.tz);
+  const parts = ['b.graze_until > :dlNext'];
+  if (lastDayTomorrow.length) parts.push('(b.graze_until = :dlNext AND b.time_zone IN (:...dlTomorrow))');
+  if (lastDayToday.length) parts.push('(b.graze_until = :dlUtc AND b.time_zone IN (:...dlToday))');
+  return { sql: `(${parts.join(' OR ')})`, params: { dlNext: next, dlUtc: utc, dlTomorrow: lastDayTomorrow, dlToday: lastDayToday } };
+}
+
+function whereInBox(qb: Qb, box: LatLngBox, tag: string): void {
+  qb.andWhere(`b.latitude >= :${tag}LatMin AND b.latitude <= :${tag}LatMax`, { [`${tag}LatMin`]: box.latMin, [`${tag}LatMax`]: box.latMax });
+  if (box.lngRanges.length === 0) return;
+  qb.andWhere(
+    new Brackets((w) => {
+      box.lngRanges.forEach(([west, east], i) => {
+        w.orWhere(`(b.longitude >= :${tag}W${i} AND b.longitude <= :${tag}E${i})`, { [`${tag}W${i}`]: west, [`${tag}E${i}`]: east });
+      });
+    }),
+  );
+}
+
+/** Blocks within `miles` of home: the box for the index, then lib's exact distance. */
+function whereWithin(qb: Qb, home: LatLng, miles: number, tag: string): void {
+  const box = boundingBox(home, miles);
+  if (box) whereInBox(qb, box, tag);
+  qb.andWhere(`${distanceMilesSql('homeLat', 'homeLng')} <= :${tag}Miles`, { homeLat: home.latitude, homeLng: home.longitude, [`${tag}Miles`]: miles });
+}
+
+/** Every comma-joined list of distinct species (in any order) that includes `species`. */
+function speciesListsWith(species: GrazingSpecies): string[] {
+  const lists: string[][] = [[]];
+  for (let n = 0; n < GRAZING_SPECIES.length; n++) {
+    for (const list of lists.filter((l) => l.length === n)) for (const s of GRAZING_SPECIES) if (!list.includes(s)) lists.push([...list, s]);
+  }
+  return lists.filter((l) => l.includes(species)).map((l) => l.join(','));
+}
+
+/** Days of feed for the viewer's flock, as SQL: the same two divisions, in the same order, as lib's capacity → daysForHead. */
+const DAYS_SQL = '((b.allowable_lb / :intake) / :head)';
+
+/** The blocks the list may show, before sorting: one query builder every step clones. */
+async function filtered(ds: DataSource, nowMs: number, viewer: ListViewer, view: ListView, q: ListAsk): Promise<Qb> {
+  const qb = ds.getRepository(Block).createQueryBuilder('b');
+  if (view === 'mine') {
+    qb.where('b.owner_id = :me', { me: viewer.id });
+    if (q.status) qb.andWhere('b.status = :status', { status: q.status });
+  } else {
+    const left = await daysLeftCondition(ds, nowMs);
+    qb.where("b.status = 'open'").andWhere('b.owner_id != :me', { me: viewer.id }).andWhere(left.sql, left.params);
+  }
+  if (q.minAcres !== undefined) qb.andWhere('b.acres >= :minAcres', { minAcres: q.minAcres });
+  if (q.maxAcres !== undefined) qb.andWhere('b.acres <= :maxAcres', { maxAcres: q.maxAcres });
+  // species_allowed is the list as entered ("sheep", "goats,sheep", …): match every list that holds the species.
+  if (q.species) qb.andWhere('b.species_allowed IN (:...speciesLists)', { speciesLists: speciesListsWith(q.species) });
+  // A stay fits when the two ranges share at least one whole day: max(starts) < min(ends), term by term.
+  if (q.from || q.to) {
+    qb.andWhere('b.graze_from < b.graze_until');
+    if (q.from) qb.andWhere(':from < b.graze_until', { from: q.from });
+    if (q.to) qb.andWhere('b.graze_from < :to', { to: q.to });
+  }
+  if (q.maxMiles !== undefined) whereWithin(qb, viewer.home!, q.maxMiles, 'max');
+  if (viewer.flock) qb.setParameters({ intake: viewer.flock.intakeLbPerHead, head: viewer.flock.headCount });
+  if (q.minDays !== undefined) {
+    // The allowable bound lets the index narrow the rows; the exact expression decides.
+    const perDay = viewer.flock!.intakeLbPerHead * viewer.flock!.headCount;
+    qb.andWhere('b.allowable_lb >= :minAllowable', { minAllowable: q.minDays * perDay * (1 - LOOSE) });
+    qb.andWhere(`${DAYS_SQL} >= :minDays`, { minDays: q.minDays });
+  }
+  return qb;
+}
+
+interface KeyRow {
+  id: string;
+  name: string;
+  k: number | string;
+}
+
+/**
+ * A sort on one indexed figure. `rank` turns the raw figure into what the reference comparator compares;
+ * `between` and `ahead` select rows by figure (inclusive range in list order; strictly ahead of one figure).
+ */
+interface FigureSort {
+  select: string;
+  orderBy: string;
+  dir: 'ASC' | 'DESC';
+  rank: (k: number | string) => number | string;
+  /** Negative when `a` comes first. */
+  compare: (a: number | string, b: number | string) => number;
+  between: (qb: Qb, first: number | string, last: number | string) => void;
+  ahead: (qb: Qb, k: number | string) => void;
+}
+
+/** created_at is text in UTC: 'YYYY-MM-DD HH:MM:SS.SSS' when TypeORM writes it, without the millis when SQLite's datetime('now') does. */
+function createdAtText(ms: number, end: 'low' | 'high'): string {
+  const iso = new Date(ms).toISOString().replace('T', ' ').replace('Z', '');
+  return end === 'low' && iso.endsWith('.000') ? iso.slice(0, -4) : iso;
+}
+
+function figureSort(ds: DataSource, sort: Exclude<BlockSort, 'distance'>, viewer: ListViewer): FigureSort {
+  const asc = (a: number | string, b: number | string) => (a < b ? -1 : a > b ? 1 : 0);
+  const desc = (a: number | string, b: number | string) => (b as number) - (a as number);
+  switch (sort) {
+    case 'window':
+      return {
+        select: 'b.graze_from',
+        orderBy: 'b.graze_from',
+        dir: 'ASC',
+        rank: String,
+        compare: asc,
+        between: (qb, first, last) => qb.andWhere('b.graze_from >= :kFirst AND b.graze_from <= :kLast', { kFirst: first, kLast: last }),
+        ahead: (qb, k) => qb.andWhere('b.graze_from < :kAhead', { kAhead: k }),
+      };
+    case 'acres':
+      return {
+        select: 'b.acres',
+        orderBy: 'b.acres',
+        dir: 'DESC',
+        rank: Number,
+        compare: desc,
+        between: (qb, first, last) => qb.andWhere('b.acres <= :kFirst AND b.acres >= :kLast', { kFirst: first, kLast: last }),
+        ahead: (qb, k) => qb.andWhere('b.acres > :kAhead', { kAhead: k }),
+      };
+    case 'days': {
+      // Walk the allowable index: days = allowable ÷ a positive constant never reorders it. The allowable
+      // bounds let the index narrow the rows; the exact expression decides.
+      const perDay = viewer.flock!.intakeLbPerHead * viewer.flock!.headCount;
+      return {
+        select: DAYS_SQL,
+        orderBy: 'b.allowable_lb',
+        dir: 'DESC',
+        rank: Number,
+        compare: desc,
+        between: (qb, first, last) =>
+          qb
+            .andWhere('b.allowable_lb <= :aFirst AND b.allowable_lb >= :aLast', { aFirst: (first as number) * perDay * (1 + LOOSE), aLast: (last as number) * perDay * (1 - LOOSE) })
+            .andWhere(`${DAYS_SQL} <= :kFirst AND ${DAYS_SQL} >= :kLast`, { kFirst: first, kLast: last }),
+        ahead: (qb, k) => qb.andWhere('b.allowable_lb >= :aAhead', { aAhead: (k as number) * perDay * (1 - LOOSE) }).andWhere(`${DAYS_SQL} > :kAhead`, { kAhead: k }),
+      };
+    }
+    case 'newest': {
+      const column = ds.getMetadata(Block).findColumnWithPropertyName('createdAt')!;
+      const ms = (k: number | string) => (ds.driver.prepareHydratedValue(k, column) as Date).getTime();
+      return {
+        select: 'b.created_at',
+        orderBy: 'b.created_at',
+        dir: 'DESC',
+        rank: ms,
+        compare: desc,
+        between: (qb, first, last) =>
+          qb.andWhere('b.created_at <= :kFirst AND b.created_at >= :kLast', { kFirst: createdAtText(first as number, 'high'), kLast: createdAtText(last as number, 'low') }),
+        ahead: (qb, k) => qb.andWhere('b.created_at > :kAhead', { kAhead: createdAtText(k as number, 'high') }),
+      };
+    }
+  }
+}
+
+const byName = (a: { name: string; id: string }, b: { name: string; id: string }) => a.name.localeCompare(b.name) || a.id.localeCompare(b.id);
+
+/** The page's ids for a sort on one indexed figure. */
+async function pageByFigure(base: Qb, sort: FigureSort, offset: number, limit: number): Promise<string[]> {
+  const keyed = (qb: Qb) => qb.select('b.id', 'id').addSelect('b.name', 'name').addSelect(sort.select, 'k');
+  // One row either side of the page tells whether equal figures straddle its edges.
+  const start = Math.max(0, offset - 1);
+  const raw: KeyRow[] = await keyed(base.clone()).orderBy(sort.orderBy, sort.dir).offset(start).limit(limit + 1 + (offset - start)).getRawMany();
+  const rows = raw.map((r) => ({ ...r, k: sort.rank(r.k) }));
+  const before = offset > 0 ? rows[0] : undefined;
+  const page = rows.slice(offset - start, offset - start + limit);
+  const after = rows[offset - start + limit];
+  if (page.length === 0) return [];
+  const first = page[0].k;
+  const last = page[page.length - 1].k;
+  const tiedBefore = before !== undefined && sort.compare(before.k, first) === 0;
+  const tiedAfter = after !== undefined && sort.compare(after.k, last) === 0;
+  const exact = (a: { k: number | string; name: string; id: string }, b: typeof a) => sort.compare(a.k, b.k) || byName(a, b);
+  if (!tiedBefore && !tiedAfter) return page.sort(exact).map((r) => r.id);
+
+  // Every row whose figure lies from the first to the last on the page, and how many rows come ahead of them.
+  const span = keyed(base.clone());
+  sort.between(span, first, last);
+  const around = ((await span.getRawMany()) as KeyRow[]).map((r) => ({ ...r, k: sort.rank(r.k) })).sort(exact);
+  let ahead = offset;
+  if (tiedBefore) {
+    const count = base.clone().select('COUNT(*)', 'n');
+    sort.ahead(count, first);
+    ahead = Number((await count.getRawOne<{ n: number }>())!.n);
+  }
+  return around.slice(offset - ahead, offset - ahead + limit).map((r) => r.id);
+}
+
+/** First radius tried for "nearest first", in miles; it grows until the disk holds the page. */
+const FIRST_RADIUS_MILES = 30;
+
+/** The page's ids nearest first: the smallest disk round home holding every block up to the page's end. */
+async function pageByDistance(base: Qb, home: LatLng, maxMiles: number | undefined, total: number, offset: number, limit: number): Promise<string[]> {
+  const needed = offset + limit;
+  const widest = maxMiles ?? Number.POSITIVE_INFINITY;
+  let miles = needed >= total ? widest : Math.min(widest, FIRST_RADIUS_MILES);
+  let rows: Array<{ id: string; name: string; latitude: number; longitude: number }>;
+  for (;;) {
+    const qb = base.clone().select('b.id', 'id').addSelect('b.name', 'name').addSelect('b.latitude', 'latitude').addSelect('b.longitude', 'longitude');
+    if (Number.isFinite(miles) && miles !== maxMiles) whereWithin(qb, home, miles, 'disk');
+    rows = await qb.getRawMany();
+    if (rows.length >= needed || !Number.isFinite(miles) || miles >= widest) break;
+    // Grow by the area still missing (blocks per square mile so far), at least doubling.
+    miles = Math.min(widest, miles * Math.max(2, 1.25 * Math.sqrt(needed / Math.max(1, rows.length))));
+    if (miles > 13_000) miles = widest;
+  }
+  return rows
+    .map((r) => ({ ...r, d: distanceMiles(home, r) }))
+    .sort((a, b) => a.d - b.d || byName(a, b))
+    .slice(offset, offset + limit)
+    .map((r) => r.id);
+}
+
+/** The blocks of one page of the list and how many the list holds. */
+export async function findBlockPage(ds: DataSource, nowMs: number, viewer: ListViewer, view: ListView, q: ListAsk): Promise<BlockPage> {
+  // From on or after To leaves no whole day to share with any block.
+  if (q.from && q.to && !(q.from < q.to)) return { blocks: [], total: 0 };
+  const base = await filtered(ds, nowMs, viewer, view, q);
+  const total = Number((await base.clone().select('COUNT(*)', 'n').getRawOne<{ n: number }>())!.n);
+  const offset = (q.page - 1) * q.pageSize;
+  if (offset >= total) return { blocks: [], total };
+  const ids =
+    q.sort === 'distance'
+      ? await pageByDistance(base, viewer.home!, q.maxMiles, total, offset, q.pageSize)
+      : await pageByFigure(base, figureSort(ds, q.sort, viewer), offset, q.pageSize);
+  const found = await ds.getRepository(Block).findBy({ id: In(ids) });
+  const byId = new Map(found.map((b) => [b.id, b]));
+  return { blocks: ids.map((id) => byId.get(id)!).filter(Boolean), total };
+}

@@ -1,0 +1,101 @@
+import { In, type EntityManager } from 'typeorm';
+import { Account } from '../accounts/account.entity';
+import { Block } from '../blocks/block.entity';
+import { blockSummary, partyOf } from '../blocks/block-views';
+import { Contract } from '../contracts/contract.entity';
+import { Document } from '../documents/document.entity';
+import type { Invoice } from './invoice.entity';
+import { invoicePdfUrl, signInvoicePdfAccess } from './pdf-access';
+import { displayStatus, invoiceNumberLabel } from '../../../lib/invoices';
+import { todayIn } from '../../../lib/day-keys';
+import { TEST_PAYMENT_METHODS } from '../../../lib/payments';
+import type { InvoiceView } from '../../../lib/schemas/invoice';
+
+// Stored invoices as the API returns them, for one viewer (their side, their PDF link). "Overdue" is worked out
+// on the block's calendar: the due day is still on time there.
+
+export interface ViewContext {
+  now: () => number;
+  tokenSecret: string;
+}
+
+function methodLabel(id: string | null): string | null {
+  const m = TEST_PAYMENT_METHODS.find((t) => t.id === id);
+  return m ? `${m.label} (${m.detail})` : null;
+}
+
+export async function invoiceViews(em: EntityManager, ctx: ViewContext, viewerId: string, invoices: Invoice[]): Promise<InvoiceView[]> {
+  if (invoices.length === 0) return [];
+  const contracts = await em.findBy(Contract, { id: In([...new Set(invoices.map((i) => i.contractId))]) });
+  const contractById = new Map(contracts.map((c) => [c.id, c]));
+  const [blocks, people] = await Promise.all([
+    em.findBy(Block, { id: In([...new Set(contracts.map((c) => c.blockId))]) }),
+    em.findBy(Account, { id: In([...new Set(invoices.flatMap((i) => [i.growerId, i.grazierId]))]) }),
+  ]);
+  const blockById = new Map(blocks.map((b) => [b.id, b]));
+  // The newest stored PDF of each (documents keep every version; the view names the latest).
+  const docs = await em.find(Document, { where: { kind: 'invoice', invoiceId: In(invoices.map((i) => i.id)) }, order: { version: 'DESC' } });
+  const pdfOf = new Map<string, Document>();
+  for (const d of docs) if (d.invoiceId && !pdfOf.has(d.invoiceId)) pdfOf.set(d.invoiceId, d);
+  const personById = new Map(people.map((p) => [p.id, p]));
+  const party = (id: string) => {
+    const p = personById.get(id);
+    return p ? partyOf(p) : { id, name: 'Unknown', businessName: null };
+  };
+  const now = ctx.now();
+  return invoices.map((inv) => {
+    const contract = contractById.get(inv.contractId)!;
+    const block = blockById.get(contract.blockId)!;
+    const today = todayIn(contract.timeZone, now);
+    const paying = inv.payingUntil !== null && inv.payingUntil > now;
+    return {
+      id: inv.id,
+      number: inv.number,
+      numberLabel: invoiceNumberLabel(inv.numberPrefix, inv.number),
+      contractId: inv.contractId,
+      block: blockSummary(block),
+      grower: party(inv.growerId),
+      grazier: party(inv.grazierId),
+      viewerSide: inv.grazierId === viewerId ? 'receivable' : 'payable',
+      status: inv.status,
+      displayStatus: displayStatus(inv.status, inv.dueDate, today),
+      issueDate: inv.issueDate,
+      dueDate: inv.dueDate,
+      paymentTermsDays: inv.paymentTermsDays,
+      currency: inv.currency,
+      basis: inv.basis,
+      rate: inv.rate,
+      quantity: inv.quantity,
+      agreedHeadDays: inv.basis === 'head-day' ? inv.quantity : (contract.agreedHeadDays ?? null),
+      stay: { startDate: contract.startDate, endDate: contract.endDate, headCount: contract.headCount, species: contract.species, animalClass: contract.animalClass },
+      servicesIncluded: inv.services,
+      lines: inv.lines,
+      subtotalCents: inv.subtotalCents,
+      totalCents: inv.totalCents,
+      payment: {
+        ready: inv.status === 'sent',
+        inProgress: paying,
+        lastFailure:
+          inv.status !== 'paid' && inv.lastFailureMessage && inv.lastFailureAt !== null
+            ? { code: inv.lastFailureCode, declineCode: inv.lastFailureDeclineCode, message: inv.lastFailureMessage, at: new Date(inv.lastFailureAt).toISOString() }
+            : null,
+      },
+      receipt:
+        inv.status === 'paid' && inv.paidAt !== null
+          ? {
+              paidAt: new Date(inv.paidAt).toISOString(),
+              paidDay: inv.paidDay ?? todayIn(contract.timeZone, inv.paidAt),
+              amountCents: inv.totalCents,
+              method: methodLabel(inv.paidWith),
+              reference: inv.providerNumber ?? inv.providerInvoiceId,
+            }
+          : null,
+      pdf: {
+        url: invoicePdfUrl(inv.id, signInvoicePdfAccess(ctx.tokenSecret, inv.id, viewerId)),
+        sha256: pdfOf.get(inv.id)?.sha256 ?? null,
+        version: pdfOf.get(inv.id)?.version ?? null,
+      },
+      createdAt: new Date(inv.createdAt).toISOString(),
+    };
+  });
+}

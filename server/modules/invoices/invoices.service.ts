@@ -1,0 +1,264 @@
+import crypto from 'node:crypto';
+import type { EntityManager } from 'typeorm';
+import { AppError } from '../../lib/errors/app-error';
+import { inTransaction } from '../../lib/db/transaction';
+import { check } from '../../lib/http/validate';
+import { hasRole } from '../../lib/http/auth';
+import { PaymentsUnavailableError, type PaymentOutcome } from '../../lib/payments';
+import { Account } from '../accounts/account.entity';
+import { Contract } from '../contracts/contract.entity';
+import { Invoice, InvoiceCounter } from './invoice.entity';
+import type { ServiceContext } from '../../lib/service-context';
+import { assertInvoiceParty, assertIssuer, assertMayInvoice, assertPayer } from './invoices.policy';
+import { invoiceViews } from './invoice-views';
+import { ensureInvoicePdf, markPaid, refreshInvoicePdf, syncInvoice } from './invoice-sync';
+import type { Document } from '../documents/documents.service';
+import { addDays, todayIn } from '../../../lib/day-keys';
+import { invoiceCharge, invoiceNumberLabel, invoicePrefix, invoiceTotals, seasonOf } from '../../../lib/invoices';
+import { paymentFailureInWords } from '../../../lib/payments';
+import {
+  createInvoiceSchema,
+  DEFAULT_PAYMENT_TERMS_DAYS,
+  invoiceListQuerySchema,
+  payInvoiceSchema,
+  type InvoiceListView,
+  type InvoiceSide,
+  type InvoiceView,
+  type PayInvoiceInput,
+} from '../../../lib/schemas/invoice';
+
+/** How long one payment attempt owns an invoice: longer than the SDK's timeout with its retries. */
+export const PAY_LEASE_MS = 90_000;
+
+async function viewOf(ctx: ServiceContext, viewer: Account, inv: Invoice, em: EntityManager = ctx.ds.manager): Promise<InvoiceView> {
+  const [view] = await invoiceViews(em, ctx, viewer.id, [inv]);
+  return view;
+}
+
+/**
+ * The grazier bills an agreed sign-off, once per contract. In one transaction: the contract is agreed and not yet
+ * invoiced, the next number of the grazier's sequence is taken (a conditional UPDATE of their counter, the unique
+ * (grazier, number) index behind it), the lines are computed by lib/ and the invoice row is written. After the
+ * commit the invoice is created in the payments API and its PDF rendered; neither runs inside the transaction.
+ */
+export async function createInvoice(ctx: ServiceContext, viewer: Account, contractId: string, body: unknown): Promise<InvoiceView> {
+  const input = await check(createInvoiceSchema, body ?? {});
+  const terms = input.paymentTermsDays ?? DEFAULT_PAYMENT_TERMS_DAYS;
+  const invoiceId = await inTransaction(ctx.ds, async (tx) => {
+    const contract = await tx.findOneBy(Contract, { id: contractId });
+    assertMayInvoice(viewer, contract);
+    const existing = await tx.findOneBy(Invoice, { contractId: contract.id });
+    if (existing) {
+      const label = invoiceNumberLabel(existing.numberPrefix, existing.number);
+      throw new AppError(409, 'already_invoiced', `This contract is invoiced already: invoice ${label} (${existing.id}).`, undefined, {
+        Location: `/api/invoices/${existing.id}`,
+      });
+    }
+    if (contract.status !== 'agreed') {
+      throw AppError.conflict('Invoice once both of you have agreed the head-days at sign-off.', 'not_agreed');
+    }
+    const charge = invoiceCharge({ basis: contract.basis, rate: contract.rate, agreedHeadDays: contract.agreedHeadDays, acres: contract.acres });
+    const grazier = await tx.findOneByOrFail(Account, { id: contract.grazierId });
+    const number = await nextInvoiceNumber(tx, grazier.id);
+    const issueDate = todayIn(contract.timeZone, ctx.now());
+    const id = crypto.randomUUID();
+    await tx.insert(Invoice, {
+      id,
+      contractId: contract.id,
+      grazierId: contract.grazierId,
+      growerId: contract.growerId,
+      number,
+      numberPrefix: invoicePrefix(grazier.businessName ?? grazier.name),
+      status: 'draft',
+      issueDate,
+      dueDate: addDays(issueDate, terms),
+      paymentTermsDays: terms,
+      currency: 'usd',
+      basis: contract.basis,
+      rate: contract.rate,
+      quantity: charge.quantity,
+      lines: charge.lines,
+      services: contract.services,
+      subtotalCents: charge.subtotalCents,
+      totalCents: charge.totalCents,
+      providerCustomerId: null,
+      providerInvoiceId: null,
+      providerStatus: null,
+      providerNumber: null,
+      syncAttempts: 0,
+      syncError: null,
+      syncNextAt: null,
+      payingUntil: null,
+      payAttempts: 0,
+      lastFailureCode: null,
+      lastFailureDeclineCode: null,
+      lastFailureMessage: null,
+      lastFailureAt: null,
+      paidAt: null,
+      paidDay: null,
+      paidWith: null,
+      voidedAt: null,
+      pdfShows: null,
+      createdAt: ctx.now(),
+      updatedAt: ctx.now(),
+    });
+    const moved = await tx
+      .createQueryBuilder()
+      .update(Contract)
+      .set({ status: 'invoiced' })
+      .where('id = :id AND status = :agreed', { id: contract.id, agreed: 'agreed' })
+      .execute();
+    if (moved.affected !== 1) throw AppError.conflict('The contract changed meanwhile; reload it and try again.', 'contract_changed');
+    return id;
+  });
+  // After the commit: the payments API (idempotent, retried later if it is down), then the PDF once it is sent.
+  await syncInvoice(ctx, invoiceId);
+  return viewOf(ctx, viewer, await ctx.ds.manager.findOneByOrFail(Invoice, { id: invoiceId }));
+}
+
+/**
+ * The next number in the grazier's own sequence. The counter row moves only from the value read to one more
+ * (a conditional UPDATE), so two writers — two processes on PostgreSQL — can never take one number; the loser
+ * reads again. The unique (grazier, number) index is the last word. No gaps: the number is taken in the same
+ * transaction that inserts the invoice, so a rolled-back invoice gives its number back.
+ */
+async function nextInvoiceNumber(tx: EntityManager, grazierId: string): Promise<number> {
+  await tx.createQueryBuilder().insert().into(InvoiceCounter).values({ grazierId, lastNumber: 0 }).orIgnore().execute();
+  for (let attempt = 0; attempt < 5; attempt++) {
+    const { lastNumber } = await tx.findOneByOrFail(InvoiceCounter, { grazierId });
+    const res = await tx
+      .createQueryBuilder()
+      .update(InvoiceCounter)
+      .set({ lastNumber: lastNumber + 1 })
+      .where('grazier_id = :grazierId AND last_number = :lastNumber', { grazierId, lastNumber })
+      .execute();
+    if (res.affected === 1) return lastNumber + 1;
+  }
+  throw AppError.conflict('Invoices are being numbered by another request; try again.', 'numbering_busy');
+}
+
+export async function listInvoices(ctx: ServiceContext, viewer: Account, query: unknown): Promise<InvoiceListView> {
+  const q = await check(invoiceListQuerySchema, query ?? {});
+  const side: InvoiceSide = q.side ?? (hasRole(viewer, 'grazier') ? 'receivable' : 'payable');
+  const rows = await ctx.ds.manager.find(Invoice, {
+    where: side === 'receivable' ? { grazierId: viewer.id } : { growerId: viewer.id },
+    order: { dueDate: 'ASC', number: 'ASC' },
+  });
+  const items = await invoiceViews(ctx.ds.manager, ctx, viewer.id, rows);
+  const zone = items[0]?.block.timeZone ?? 'UTC';
+  return { side, items, totals: invoiceTotals(items.map((i) => ({ displayStatus: i.displayStatus, totalCents: i.totalCents, paidDay: i.receipt?.paidDay ?? null })), seasonOf(todayIn(zone, ctx.now()))) };
+}
+
+export async function getInvoice(ctx: ServiceContext, viewer: Account, id: string): Promise<InvoiceView> {
+  let inv = await ctx.ds.manager.findOneBy(Invoice, { id });
+  assertInvoiceParty(viewer, inv);
+  // An invoice still being issued is pushed on whenever someone looks at it (and by the recovery timer).
+  if (inv.status === 'draft' && (inv.syncNextAt === null || inv.syncNextAt <= ctx.now())) inv = (await syncInvoice(ctx, inv.id)) ?? inv;
+  return viewOf(ctx, viewer, inv);
+}
+
+/** The newest stored PDF of the invoice (rendered now if the last render did not happen), for either party. */
+export async function invoicePdf(ctx: ServiceContext, viewerId: string, id: string): Promise<Document> {
+  const viewer = await ctx.ds.manager.findOneBy(Account, { id: viewerId });
+  const inv = await ctx.ds.manager.findOneBy(Invoice, { id });
+  if (!viewer) throw AppError.notFound('Invoice');
+  assertInvoiceParty(viewer, inv);
+  const doc = await ensureInvoicePdf(ctx, inv.id);
+  if (!doc) throw AppError.conflict('This invoice is still being issued with the payments service; its PDF follows once it is sent.', 'not_issued');
+  return doc;
+}
+
+/**
+ * The grower pays with one of the payments API's test payment methods. The attempt first takes a lease on the
+ * invoice (a conditional UPDATE: one attempt at a time, so a double tap cannot charge twice), then calls the API
+ * outside any transaction with a key unique to the attempt, then records the outcome. A decline leaves the invoice
+ * unpaid with the reason in plain words (402); a timeout frees the lease by time, and the next attempt learns
+ * from the API if the first went through ("already paid").
+ */
+export async function payInvoice(ctx: ServiceContext, viewer: Account, id: string, body: unknown): Promise<InvoiceView> {
+  const input = (await check(payInvoiceSchema, body)) as PayInvoiceInput;
+  let inv = await ctx.ds.manager.findOneBy(Invoice, { id });
+  assertInvoiceParty(viewer, inv);
+  assertPayer(viewer, inv);
+  if (inv.status === 'paid') throw AppError.conflict(`Invoice ${invoiceNumberLabel(inv.numberPrefix, inv.number)} is paid already.`, 'already_paid');
+  if (inv.status === 'void') throw AppError.conflict('This invoice was voided and cannot be paid.', 'invoice_void');
+  if (inv.status === 'draft') {
+    inv = (await syncInvoice(ctx, inv.id)) ?? inv;
+    if (inv.status === 'paid') throw AppError.conflict(`Invoice ${invoiceNumberLabel(inv.numberPrefix, inv.number)} is paid already.`, 'already_paid');
+    if (inv.status !== 'sent') {
+      throw new AppError(503, 'payments_unavailable', 'The payments service is not reachable yet, so this invoice cannot be paid right now. Nothing was charged; try again in a few minutes.', undefined, {
+        'Retry-After': '60',
+      });
+    }
+  }
+
+  const attempt = await inTransaction(ctx.ds, async (tx) => {
+    const now = ctx.now();
+    const res = await tx
+      .createQueryBuilder()
+      .update(Invoice)
+      .set({ payingUntil: now + PAY_LEASE_MS, payAttempts: () => 'pay_attempts + 1', updatedAt: now })
+      .where('id = :id AND status = :sent', { id, sent: 'sent' })
+      .andWhere('(paying_until IS NULL OR paying_until <= :now)', { now })
+      .execute();
+    const fresh = await tx.findOneByOrFail(Invoice, { id });
+    if (res.affected === 1) return fresh;
+    if (fresh.status === 'paid') throw AppError.conflict(`Invoice ${invoiceNumberLabel(fresh.numberPrefix, fresh.number)} is paid already.`, 'already_paid');
+    throw AppError.conflict('A payment for this invoice is already going through. Wait a moment and reload before trying again.', 'payment_in_progress');
+  });
+
+  let outcome: PaymentOutcome;
+  try {
+    outcome = await ctx.payments.pay(attempt.providerInvoiceId!, input.paymentMethod, `fieldfold:pay:${attempt.id}:${attempt.payAttempts}`);
+  } catch (err) {
+    await inTransaction(ctx.ds, (tx) => tx.update(Invoice, { id, payingUntil: attempt.payingUntil! }, { payingUntil: null, updatedAt: ctx.now() }));
+    if (err instanceof PaymentsUnavailableError) {
+      throw new AppError(503, 'payments_unavailable', 'The payments service did not answer. If you were charged, the invoice will show paid shortly; otherwise try again.', undefined, {
+        'Retry-After': '30',
+      });
+    }
+    throw err;
+  }
+
+  if (outcome.kind === 'declined') {
+    const message = paymentFailureInWords(outcome.code, outcome.declineCode);
+    await inTransaction(ctx.ds, (tx) =>
+      tx.update(
+        Invoice,
+        { id },
+        { payingUntil: null, lastFailureCode: outcome.code, lastFailureDeclineCode: outcome.declineCode, lastFailureMessage: message, lastFailureAt: ctx.now(), updatedAt: ctx.now() },
+      ),
+    );
+    throw new AppError(402, 'payment_declined', message);
+  }
+  await inTransaction(ctx.ds, async (tx) => {
+    await markPaid(tx, ctx, id, { paidAt: outcome.invoice.paidAt ?? ctx.now(), paidWith: outcome.kind === 'paid' ? input.paymentMethod : null, provider: outcome.invoice });
+  });
+  ctx.outbox.kick();
+  await refreshInvoicePdf(ctx, id);
+  return viewOf(ctx, viewer, await ctx.ds.manager.findOneByOrFail(Invoice, { id }));
+}
+
+/** The grazier cancels an unpaid invoice (e.g. issued in error); the API's copy is voided after the commit. */
+export async function voidInvoice(ctx: ServiceContext, viewer: Account, id: string): Promise<InvoiceView> {
+  const inv = await ctx.ds.manager.findOneBy(Invoice, { id });
+  assertInvoiceParty(viewer, inv);
+  assertIssuer(viewer, inv);
+  await inTransaction(ctx.ds, async (tx) => {
+    const now = ctx.now();
+    const res = await tx
+      .createQueryBuilder()
+      .update(Invoice)
+      .set({ status: 'void', voidedAt: now, updatedAt: now })
+      .where('id = :id AND status IN (:...open)', { id, open: ['draft', 'sent'] })
+      .andWhere('(paying_until IS NULL OR paying_until <= :now)', { now })
+      .execute();
+    if (res.affected === 1) return;
+    const fresh = await tx.findOneByOrFail(Invoice, { id });
+    if (fresh.status === 'paid') throw AppError.conflict('This invoice is paid and cannot be voided.', 'already_paid');
+    if (fresh.status === 'void') throw AppError.conflict('This invoice is void already.', 'invoice_void');
+    throw AppError.conflict('A payment for this invoice is going through right now; try again in a moment.', 'payment_in_progress');
+  });
+  await syncInvoice(ctx, id);
+  return viewOf(ctx, viewer, await ctx.ds.manager.findOneByOrFail(Invoice, { id }));
+}
