@@ -6,10 +6,10 @@ import { space } from '@/components/ui/theme';
 import { FormDateField } from '@/components/form/form-date-field';
 import { FormTextField } from '@/components/form/form-text-field';
 import { applyServerErrors, FormError } from '@/components/form/form-error';
-import { useCloseAmendment, useProposeAmendment, type AmendmentView } from '@/hooks/api/contracts';
+import { useCloseAmendment, useProposeAmendment } from '@/hooks/api/contracts';
 import { formatDay, formatNumber } from '@/lib/format';
 import { formatMoment } from '@/lib/local-time';
-import { amendmentSchema, type AmendmentInput, type ContractView } from '@/lib/schemas/contract';
+import { amendmentSchema, type AmendmentInput, type AmendmentView, type ContractView } from '@/lib/schemas/contract';
 import { formatRate, RATE_UNIT } from '@/lib/terms';
 
 // The terms an amendment may change, in the order the form asks for them, with how each is shown.

@@ -8,7 +8,7 @@ import { applyServerErrors, FormError } from '@/components/form/form-error';
 import { localDateKey, parseIsoInstant } from '@/lib/dates';
 import { formatDay } from '@/lib/format';
 import { formatClock, formatMoment } from '@/lib/local-time';
-import { cancelContractSchema } from '@/lib/schemas/contract';
+import { voidLogEntrySchema } from '@/lib/schemas/contract';
 import { useVoidLogEntry } from '@/hooks/api/contracts';
 import type { LogRow } from '@/hooks/offline/log-with-queue';
 import { entryDetail, entryTitle } from './log-words';
@@ -18,9 +18,6 @@ function dayOf(at: string, timeZone: string): string {
   return t === null ? at.slice(0, 10) : localDateKey(t, timeZone);
 }
 
-// The reason for voiding follows the same rule as any other reason the product asks for (3–1000 characters).
-const voidSchema = cancelContractSchema;
-
 /** "This entry is wrong": voided with a reason, it stays in the record struck out and counts for nothing. */
 function VoidEntry({ contractId, entryId, onDone }: { contractId: string; entryId: string; onDone: () => void }) {
   const voidIt = useVoidLogEntry(contractId, entryId);
@@ -28,7 +25,7 @@ function VoidEntry({ contractId, entryId, onDone }: { contractId: string; entryI
   return (
     <Formik
       initialValues={{ reason: '' }}
-      validationSchema={voidSchema}
+      validationSchema={voidLogEntrySchema}
       onSubmit={async (v, helpers) => {
         setFormError(null);
         try {

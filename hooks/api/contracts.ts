@@ -1,90 +1,30 @@
 import { infiniteQueryOptions, onlineManager, useInfiniteQuery, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import type {
-  AmendmentInput,
-  CancelContractInput,
-  ContractView,
-  LogEntryKind,
-  LogEntryView,
-  LogFigures,
-  SignContractInput,
-  SignOffAction,
-  SignOffInput,
-  SignOffView,
+import {
+  MAX_CONTRACT_PAGE,
+  type AmendmentInput,
+  type AmendmentView,
+  type CancelContractInput,
+  type ContractListResponse,
+  type ContractView,
+  type LogEntryKind,
+  type LogEntryView,
+  type LogFigures,
+  type LogPage,
+  type SignContractInput,
+  type SignOffInput,
+  type SignOffView,
+  type VoidLogEntryInput,
 } from '@/lib/schemas/contract';
 import { deviceCopies } from '@/hooks/offline/device-copies';
 import type { LogEntryToSend } from '@/hooks/offline/log-queue';
 import { api, queryString } from './client';
 import { staleTimes } from './query-client';
 
-// ——— What the contracts API adds to lib/schemas/contract.ts's first draft ———
-// Mirrored here with the API's names and shapes until its lib/schemas/contract.ts reaches main; the screens
-// read them through this file only, so the switch is one import.
-
-export type ContractParty = 'grower' | 'grazier';
-
-export interface AmendmentView {
-  id: string;
-  version: number;
-  status: 'proposed' | 'agreed' | 'withdrawn' | 'declined' | 'void';
-  proposedBy: ContractParty;
-  proposedByName: string;
-  reason: string;
-  /** Each changed term with its old and new value in words. */
-  changes: Array<{ field: string; label: string; from: string; to: string }>;
-  /** What each party signs for this amendment (sent with the signature). */
-  termsHash: string;
-  signatures: Array<{ party: ContractParty; typedName: string; signedAt: string; termsHash: string }>;
-  createdAt: string;
-}
-
-export interface ContractViewerFacts {
-  party: ContractParty | null;
-  /** The viewer has to sign the current terms or the pending amendment. */
-  mustSign: boolean;
-  canCancel: boolean;
-  canAmend: boolean;
-  signOffActions: SignOffAction[];
-}
-
-export type SignOffRound = Omit<SignOffView, 'status'> & {
-  status: SignOffView['status'] | 'superseded';
-  /** The day-by-day breakdown of the proposed head-days. */
-  byDay?: Array<{ date: string; headDays: number }>;
-  comment?: string | null;
-  agreedBy?: ContractParty | null;
-};
-
-export type ContractDetailView = ContractView & {
-  pendingAmendment?: AmendmentView | null;
-  signOff?: SignOffRound | null;
-  viewer?: ContractViewerFacts;
-  cancellation?: { by: ContractParty; byName: string; reason: string; at: string } | null;
-  agreedAt?: string | null;
-  restrictions?: { earliestSafeDate: string | null };
-};
-
-export type LogEntryRecord = LogEntryView & {
-  authorName?: string;
-  /** Voided by its author: kept in the record, struck out, counting for nothing. */
-  voided?: { at: string; reason: string } | null;
-};
-
-export type LogFiguresView = LogFigures & {
-  /** ISO instant the head-days are counted up to. */
-  until?: string | null;
-  alerts?: Array<{ key: string; tone: 'danger' | 'caution' | 'info'; text: string }>;
-  dailyIntakeLbPerHead?: number;
-};
-
-export interface LogPage {
-  items: LogEntryRecord[];
-  figures: LogFiguresView;
-  nextCursor: string | null;
-  /** Whether the viewer may add entries now, and of which kinds. */
-  canWrite?: LogEntryKind[];
-}
-
-// ———
+// The views come from lib/schemas/contract.ts; these names are how the screens read them.
+export type ContractDetailView = ContractView;
+export type SignOffRound = SignOffView;
+export type LogEntryRecord = LogEntryView;
+export type LogFiguresView = LogFigures;
 
 export const pendingAmendmentOf = (c: ContractDetailView): AmendmentView | null => c.pendingAmendment ?? null;
 export const signOffOf = (c: ContractDetailView): SignOffRound | null => c.signOff ?? null;
@@ -108,12 +48,12 @@ export const contractKeys = {
 };
 
 const enc = encodeURIComponent;
-/** Pages as large as the API gives (its MAX_CONTRACT_PAGE): a season's contracts or a stay's log in one or two. */
-const PAGE = 100;
+/** Pages as large as the API gives: a season's contracts or a stay's log in one or two. */
+const PAGE = MAX_CONTRACT_PAGE;
 /** How often an open log reads its figures again while online. */
 const LOG_REFRESH_MS = 60_000;
 
-type ContractPage = { items: ContractDetailView[]; nextCursor?: string | null };
+type ContractPage = ContractListResponse;
 
 export const fetchContracts = (cursor?: string) => api<ContractPage>(`/contracts${queryString({ limit: PAGE, cursor })}`);
 export const fetchContract = (id: string) => api<{ contract: ContractDetailView }>(`/contracts/${enc(id)}`).then((r) => r.contract);
@@ -210,4 +150,4 @@ export const useSignOff = (id: string) => useContractAction<SignOffInput>(id, 's
 /** The proposer withdraws a pending amendment; the other party declines it. */
 export const useCloseAmendment = (id: string, amendmentId: string, how: 'withdraw' | 'decline') => useContractAction<Record<string, never>>(id, `amendments/${enc(amendmentId)}/${how}`);
 /** The author voids a mistaken entry: it stays in the record, struck out, and counts for nothing. */
-export const useVoidLogEntry = (id: string, entryId: string) => useContractAction<{ reason: string }>(id, `log/${enc(entryId)}/void`);
+export const useVoidLogEntry = (id: string, entryId: string) => useContractAction<VoidLogEntryInput>(id, `log/${enc(entryId)}/void`);

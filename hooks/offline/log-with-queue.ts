@@ -1,7 +1,8 @@
 import { localDateKey, parseIsoInstant } from '@/lib/dates';
 import { dailyIntakeLb } from '@/lib/grazing/capacity';
 import { GrazingInputError, headDaysFromMoves, type HeadDaysByDay } from '@/lib/grazing/head-days';
-import { formatDay } from '@/lib/format';
+import { afterOutByFlag } from '@/lib/grazing/log-days';
+import { afterEndDateFlag } from '@/lib/grazing/log-figures';
 import { isoInZone } from '@/lib/local-time';
 import type { LogEntryRecord, LogFiguresView } from '@/hooks/api/contracts';
 import type { ContractView, LogEntryView } from '@/lib/schemas/contract';
@@ -17,13 +18,15 @@ export interface LogRow {
   queued: QueuedEntry | null;
 }
 
-type ContractFacts = Pick<ContractView, 'timeZone' | 'outBy' | 'bodyWeightLb' | 'normalised' | 'grazier' | 'grower'>;
+type ContractFacts = Pick<ContractView, 'timeZone' | 'outBy' | 'endDate' | 'bodyWeightLb' | 'normalised' | 'grazier' | 'grower'>;
 
-/** How the phone marks an entry the server has not seen yet; the server's own flags replace it once sent. */
-export function localFlags(at: string, c: Pick<ContractView, 'timeZone' | 'outBy'>): string[] {
+/** How the phone marks an entry the server has not seen yet, in the server's words; its own flags replace these once sent. */
+export function localFlags(at: string, c: Pick<ContractView, 'timeZone' | 'outBy' | 'endDate'>): string[] {
   const t = parseIsoInstant(at);
   if (t === null) return [];
-  return localDateKey(t, c.timeZone) > c.outBy ? [`After the animals-out-by date (${formatDay(c.outBy)})`] : [];
+  const day = localDateKey(t, c.timeZone);
+  if (day > c.outBy) return [afterOutByFlag(c.outBy)];
+  return day > c.endDate ? [afterEndDateFlag(c.endDate)] : [];
 }
 
 function viewOf(q: QueuedEntry, c: ContractFacts): LogEntryView {
