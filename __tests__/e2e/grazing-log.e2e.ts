@@ -119,9 +119,11 @@ describe('The grazing log from the truck', () => {
 
   test('With no signal the grazier reloads the page, still sees the log, and logs a tally that waits on the phone', async () => {
     const { page, context } = b;
+    // The worker registers after the page is up; the app shell must be precached before the signal goes.
+    await expect(page.evaluate('navigator.serviceWorker.ready.then(() => true)')).resolves.toBe(true);
     await context.setOffline(true);
     // The service worker serves the app itself; the contract, the log and the account come from IndexedDB
-    // and local storage. (This step needs the service worker on main: see the contracts-ui report.)
+    // and local storage.
     await page.reload();
     await page.getByRole('heading', { name: 'Grazing log' }).waitFor();
     await visibleText(page, 'No signal').waitFor();

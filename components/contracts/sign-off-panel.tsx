@@ -141,6 +141,8 @@ function GrowerAnswer({ contractId, proposed }: { contractId: string; proposed: 
                 onPress={() => {
                   setDisputing(true);
                   void setFieldValue('action', 'dispute');
+                  // Present (null), so a send without a figure marks the field and shows its message.
+                  void setFieldValue('headDays', null);
                 }}
               />
             </View>
