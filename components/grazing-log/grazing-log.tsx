@@ -32,6 +32,9 @@ export interface GrazingLogProps {
   loadingOlder?: boolean;
 }
 
+/** The log is closed for good: the head-days are agreed, or the contract was cancelled. */
+const CLOSED: ReadonlySet<ContractStatus> = new Set(['agreed', 'invoiced', 'paid', 'cancelled']);
+
 const MODES_OF_KIND: Record<LogEntryKind, EntryMode[]> = { move: ['in', 'out'], tally: ['tally'], observation: ['observation'] };
 
 /**
@@ -167,7 +170,7 @@ export function GrazingLog({ contract, log, side, onShowOlder, loadingOlder }: G
 
   const figuresPanel = (
     <>
-      <LogFiguresPanel figures={figures} queuedMoves={queuedMoves} problem={problem} />
+      <LogFiguresPanel figures={figures} queuedMoves={queuedMoves} problem={problem} closed={CLOSED.has(contract.status)} />
       <Card>
         <LogChart
           byDay={figures.byDay}
@@ -221,7 +224,7 @@ export function GrazingLog({ contract, log, side, onShowOlder, loadingOlder }: G
     <View style={styles.col}>
       <View style={styles.statusRow}>
         <ContractStatusBadge status={contract.status} />
-        {side === 'grower' ? (
+        {side === 'grower' && writable ? (
           <Text variant="caption" tone="muted">
             The grazier keeps this log; you can add your own observations.
           </Text>

@@ -35,16 +35,21 @@ function TakeBar({ eatenLb, targetTakeLb }: { eatenLb: number; targetTakeLb: num
  * The running figures of the log: head now, head-days so far, forage eaten against the target, days left,
  * and the server's warnings. `queuedMoves` says the phone included moves still waiting to send.
  */
-export function LogFiguresPanel({ figures, queuedMoves, problem }: { figures: LogFiguresView; queuedMoves: number; problem: string | null }) {
+export function LogFiguresPanel({ figures, queuedMoves, problem, closed }: { figures: LogFiguresView; queuedMoves: number; problem: string | null; closed?: boolean }) {
   const f = figures;
   return (
     <Card style={styles.card} aria-label="Running figures">
-      <Text variant="heading">So far</Text>
+      <Text variant="heading">{closed ? 'The stay' : 'So far'}</Text>
       <View style={styles.grid}>
         <Figure strong label="Head on the block" value={formatNumber(f.headNow)} testID="figure-head-now" />
-        <Figure strong label="Head-days so far" value={formatNumber(f.headDaysSoFar, 1)} testID="figure-head-days" />
-        <Figure label="Days left in the window" value={days(f.daysLeftInWindow)} />
-        <Figure label="Days to the out-by date" value={days(f.daysToOutBy)} detail={f.daysToOutBy <= 2 ? 'plan the move out' : undefined} />
+        {/* A stay of a few hours is a fraction of a head-day: show it rather than a bare 0. */}
+        <Figure strong label={closed ? 'Head-days logged' : 'Head-days so far'} value={formatNumber(f.headDaysSoFar, f.headDaysSoFar < 10 ? 4 : 1)} testID="figure-head-days" />
+        {closed ? null : (
+          <>
+            <Figure label="Days left in the window" value={days(f.daysLeftInWindow)} />
+            <Figure label="Days to the out-by date" value={days(f.daysToOutBy)} detail={f.daysToOutBy <= 2 ? 'plan the move out' : undefined} />
+          </>
+        )}
       </View>
       <TakeBar eatenLb={f.eatenLb} targetTakeLb={f.targetTakeLb} />
       {queuedMoves > 0 ? (
