@@ -3,29 +3,13 @@ import { Button, Card, Text } from '@/components/ui';
 import { colors, radius, space } from '@/components/ui/theme';
 import { formatClock, formatMoment } from '@/lib/local-time';
 import type { QueuedEntry } from '@/hooks/offline/log-queue';
+import { queuedFacts } from '@/hooks/offline/log-with-queue';
 import { entryDetail, entryTitle } from './log-words';
 
 const SENT_SHOWN = 5;
 
-function asFacts(q: QueuedEntry) {
-  const e = q.entry;
-  return {
-    kind: e.kind as 'move' | 'tally' | 'observation',
-    change: e.change ?? null,
-    count: e.count ?? null,
-    paddock: e.paddock ?? null,
-    residualHeightIn: e.residualHeightIn ?? null,
-    takenPct: e.takenPct ?? null,
-    trampledPct: e.trampledPct ?? null,
-    bareGroundPct: e.bareGroundPct ?? null,
-    waterChecked: e.waterChecked ?? null,
-    fenceChecked: e.fenceChecked ?? null,
-    losses: e.losses ?? null,
-  };
-}
-
 function Item({ q, timeZone, onFix, onDiscard }: { q: QueuedEntry; timeZone: string; onFix: (q: QueuedEntry) => void; onDiscard: (q: QueuedEntry) => void }) {
-  const facts = asFacts(q);
+  const facts = queuedFacts(q);
   const detail = entryDetail(facts);
   return (
     <View style={[styles.item, q.state === 'refused' && styles.refused]} testID={`queued-${q.entry.clientId}`}>

@@ -29,13 +29,11 @@ export function localFlags(at: string, c: Pick<ContractView, 'timeZone' | 'outBy
   return day > c.endDate ? [afterEndDateFlag(c.endDate)] : [];
 }
 
-function viewOf(q: QueuedEntry, c: ContractFacts): LogEntryView {
+/** A queued entry's facts with the server's nulls for what was left out (as the log view has them). */
+export function queuedFacts(q: QueuedEntry) {
   const e = q.entry;
   return {
-    id: `queued:${e.clientId}`,
-    clientId: e.clientId,
     kind: e.kind as LogEntryView['kind'],
-    at: e.at,
     change: e.change ?? null,
     count: e.count ?? null,
     paddock: e.paddock ?? null,
@@ -46,6 +44,16 @@ function viewOf(q: QueuedEntry, c: ContractFacts): LogEntryView {
     waterChecked: e.waterChecked ?? null,
     fenceChecked: e.fenceChecked ?? null,
     losses: e.losses ?? null,
+  };
+}
+
+function viewOf(q: QueuedEntry, c: ContractFacts): LogEntryView {
+  const e = q.entry;
+  return {
+    id: `queued:${e.clientId}`,
+    clientId: e.clientId,
+    at: e.at,
+    ...queuedFacts(q),
     note: e.note ?? null,
     author: q.accountId === c.grower.id ? 'grower' : 'grazier',
     flags: localFlags(e.at, c),

@@ -1,4 +1,4 @@
-import type { RequestHandler } from 'express';
+import type { Request, RequestHandler } from 'express';
 import jwt from 'jsonwebtoken';
 import type { DataSource } from 'typeorm';
 import { AppError } from '../errors/app-error';
@@ -69,4 +69,27 @@ export function requireRole(role: Role): RequestHandler {
 export function signedIn(req: Express.Request): Account {
   if (!req.account) throw AppError.unauthenticated();
   return req.account;
+}
+
+/**
+ * For links an `<img>` or a download opens, which cannot send a header: the bearer token as usual, or a signed
+ * `access` query parameter that `verify` turns into the viewer's account id (null when it is expired, forged or
+ * for another record). Either way the viewer's id is left in `res.locals.viewerId` for the route's own policy.
+ */
+export function bearerOrAccessLink(auth: RequestHandler, verify: (access: string, req: Request) => string | null, invalidMessage: string): RequestHandler {
+  return (req, res, next) => {
+    const access = req.query.access;
+    if (access === undefined) {
+      return auth(req, res, (err?: unknown) => {
+        if (err) return next(err);
+        res.locals.viewerId = signedIn(req).id;
+        next();
+      });
+    }
+    if (typeof access !== 'string') return next(AppError.badRequest('Give one access token', { access: 'Give one access token' }));
+    const viewerId = verify(access, req);
+    if (!viewerId) return next(AppError.unauthenticated(invalidMessage));
+    res.locals.viewerId = viewerId;
+    next();
+  };
 }

@@ -8,7 +8,7 @@ import { parseIsoInstant } from '../../../lib/dates';
 import { formatDay, formatDayRange, formatNumber } from '../../../lib/format';
 import { formatRate } from '../../../lib/terms';
 import { formatClock, formatMoment, shortId } from './format';
-import { CONTENT_WIDTH, LEFT, RIGHT, STYLE, Sheet, colors, type TextStyle } from './sheet';
+import { CONTENT_WIDTH, LEFT, RIGHT, STYLE, Sheet, colors, columnStarts, type TableColumn, type TextStyle } from './sheet';
 import { drawCautions, drawFigures, drawKeyValues, drawTitleBlock, partyLine } from './parts';
 import type { GrazingLogPdfData, PdfSignature } from './types';
 
@@ -19,14 +19,8 @@ import type { GrazingLogPdfData, PdfSignature } from './types';
 
 const UNITS = 10 ** HEAD_DAY_DECIMALS;
 
-interface Column {
-  label: string;
-  width: number;
-  align: 'left' | 'right';
-}
-
 // Widths in points; they add up to CONTENT_WIDTH (512).
-const COLUMNS: Column[] = [
+const COLUMNS: TableColumn[] = [
   { label: 'Date', width: 58, align: 'left' },
   { label: 'Head on\nblock', width: 38, align: 'right' },
   { label: 'Head-days', width: 46, align: 'right' },
@@ -41,12 +35,7 @@ const PAD_X = 3;
 const PAD_Y = 2.2;
 const NOTES_MAX_LINES = 6;
 
-function columnX(i: number): number {
-  let x = LEFT;
-  for (let c = 0; c < i; c++) x += COLUMNS[c].width;
-  return x;
-}
-const COL_X = COLUMNS.map((_, i) => columnX(i));
+const COL_X = columnStarts(COLUMNS);
 
 // Head-days are kept to 0.0001 (lib/grazing/head-days) and billed at that precision: print all of it, so the
 // days on paper add up exactly to the total on paper.

@@ -4,26 +4,21 @@ import { formatCents } from '../../../lib/money';
 import { formatRateAmount } from '../../../lib/terms';
 import { formatMoment, shortId } from './format';
 import { drawTitleBlock } from './parts';
-import { CONTENT_WIDTH, LEFT, RIGHT, STYLE, Sheet, colors, type TextStyle } from './sheet';
+import { CONTENT_WIDTH, LEFT, RIGHT, STYLE, Sheet, colors, columnStarts, type TableColumn, type TextStyle } from './sheet';
 import type { InvoicePdfData, InvoicePdfLine, InvoicePdfParty } from './types';
 
 // The invoice a grazier sends a grower, as a file for both: who, what for, each line with its quantity,
 // unit, rate and amount, the total, and whether it is paid. Amounts are integer cents printed with
 // lib/money formatCents; the renderer refuses to print lines that do not add up to the totals it is given.
 
-interface Column {
-  label: string;
-  width: number;
-  align: 'left' | 'right';
-}
-
-const COLUMNS: Column[] = [
+const COLUMNS: TableColumn[] = [
   { label: 'Description', width: 212, align: 'left' },
   { label: 'Quantity', width: 70, align: 'right' },
   { label: 'Unit', width: 70, align: 'left' },
   { label: 'Rate', width: 70, align: 'right' },
   { label: 'Amount', width: 90, align: 'right' },
 ];
+const COL_X = columnStarts(COLUMNS);
 const PAD_X = 4;
 const PAD_Y = 4;
 
@@ -56,11 +51,7 @@ function drawRow(s: Sheet, cells: string[], styles: TextStyle[], fill: string | 
   if (s.ensure(h)) drawHeader(s);
   const y = s.y;
   if (fill) s.box(LEFT, y, CONTENT_WIDTH, h, fill);
-  let x = LEFT;
-  cells.forEach((t, i) => {
-    s.cell(t, x + PAD_X, y + PAD_Y, styles[i], { width: COLUMNS[i].width - 2 * PAD_X, align: COLUMNS[i].align });
-    x += COLUMNS[i].width;
-  });
+  cells.forEach((t, i) => s.cell(t, COL_X[i] + PAD_X, y + PAD_Y, styles[i], { width: COLUMNS[i].width - 2 * PAD_X, align: COLUMNS[i].align }));
   s.y = y + h;
   s.rule(s.y, colors.line, 0.5);
 }
@@ -69,11 +60,7 @@ function drawHeader(s: Sheet): void {
   const h = s.lineHeight(STYLE.head) + 2 * PAD_Y;
   const y = s.y;
   s.box(LEFT, y, CONTENT_WIDTH, h, colors.coverWash);
-  let x = LEFT;
-  for (const c of COLUMNS) {
-    s.cell(c.label, x + PAD_X, y + PAD_Y, STYLE.head, { width: c.width - 2 * PAD_X, align: c.align });
-    x += c.width;
-  }
+  COLUMNS.forEach((c, i) => s.cell(c.label, COL_X[i] + PAD_X, y + PAD_Y, STYLE.head, { width: c.width - 2 * PAD_X, align: c.align }));
   s.rule(y + h, colors.cover, 0.9);
   s.y = y + h;
 }

@@ -17,6 +17,24 @@ export const CONTENT_WIDTH = PAGE.width - 2 * MARGIN.x;
 export const LEFT = MARGIN.x;
 export const RIGHT = PAGE.width - MARGIN.x;
 
+/** A column of a table on the sheet; widths in points. */
+export interface TableColumn {
+  label: string;
+  width: number;
+  align: 'left' | 'right';
+}
+
+/** The x of each column's left edge, the columns laid side by side from the left margin. */
+export function columnStarts(columns: readonly TableColumn[]): number[] {
+  const starts: number[] = [];
+  let x = LEFT;
+  for (const c of columns) {
+    starts.push(x);
+    x += c.width;
+  }
+  return starts;
+}
+
 export interface TextStyle {
   font: PdfFontName;
   size: number;

@@ -1,7 +1,7 @@
 import { Router, type RequestHandler } from 'express';
 import multer from 'multer';
-import { AppError } from '../../lib/errors/app-error';
-import { requireAuth, signedIn } from '../../lib/http/auth';
+import { bearerOrAccessLink, requireAuth, signedIn } from '../../lib/http/auth';
+import { sendStoredImage } from '../../lib/http/send-image';
 import { param } from '../../lib/http/params';
 import type { ServiceContext } from '../../lib/service-context';
 import { PHOTO_FIELD, uploadError } from '../blocks/blocks.routes';
@@ -76,30 +76,10 @@ export function contractsRouter(ctx: ServiceContext): Router {
   });
 
   // An <img> cannot send a bearer token: the signed `access` link from the log view is accepted too.
-  const photoViewer: RequestHandler = (req, res, next) => {
-    const access = req.query.access;
-    if (access === undefined) {
-      return auth(req, res, (err?: unknown) => {
-        if (err) return next(err);
-        res.locals.viewerId = signedIn(req).id;
-        next();
-      });
-    }
-    if (typeof access !== 'string') return next(AppError.badRequest('Give one access token', { access: 'Give one access token' }));
-    const viewerId = verifyPhotoAccess(ctx.tokenSecret, access, { photoId: param(req, 'photoId'), blockId: param(req, 'id') });
-    if (!viewerId) return next(AppError.unauthenticated('This photo link has expired or is not valid; reload the log'));
-    res.locals.viewerId = viewerId;
-    next();
-  };
+  const photoViewer = bearerOrAccessLink(auth, (access, req) => verifyPhotoAccess(ctx.tokenSecret, access, { photoId: param(req, 'photoId'), blockId: param(req, 'id') }), 'This photo link has expired or is not valid; reload the log');
   router.get('/contracts/:id/log/:entryId/photos/:photoId', photoViewer, async (req, res, next) => {
     const file = await openLogPhoto(ctx, res.locals.viewerId as string, param(req, 'id'), param(req, 'entryId'), param(req, 'photoId'));
-    res.set({ 'Cache-Control': 'private, max-age=3600', 'X-Content-Type-Options': 'nosniff', 'Content-Security-Policy': "default-src 'none'" });
-    res.type(file.mimeType);
-    res.sendFile(file.path, (err?: NodeJS.ErrnoException) => {
-      if (!err) return;
-      if (err.code === 'ENOENT') return next(AppError.notFound('Photo'));
-      if (!res.headersSent) next(err);
-    });
+    sendStoredImage(res, next, file);
   });
 
   router.post('/contracts/:id/sign-off', auth, async (req, res) => {

@@ -1,6 +1,6 @@
-import express, { Router, type RequestHandler } from 'express';
+import express, { Router } from 'express';
 import { AppError } from '../../lib/errors/app-error';
-import { requireAuth, requireRole, signedIn } from '../../lib/http/auth';
+import { bearerOrAccessLink, requireAuth, requireRole, signedIn } from '../../lib/http/auth';
 import { param } from '../../lib/http/params';
 import { WebhookVerificationError } from '../../lib/payments';
 import type { ServiceContext } from '../../lib/service-context';
@@ -29,21 +29,7 @@ export function invoicesRouter(ctx: ServiceContext): Router {
   });
 
   // A download link cannot send a bearer token, so the signed `access` link from the invoice view is accepted too.
-  const pdfViewer: RequestHandler = (req, res, next) => {
-    const access = req.query.access;
-    if (access === undefined) {
-      return auth(req, res, (err?: unknown) => {
-        if (err) return next(err);
-        res.locals.viewerId = signedIn(req).id;
-        next();
-      });
-    }
-    if (typeof access !== 'string') return next(AppError.badRequest('Give one access token', { access: 'Give one access token' }));
-    const viewerId = verifyInvoicePdfAccess(ctx.tokenSecret, access, param(req, 'id'));
-    if (!viewerId) return next(AppError.unauthenticated('This download link has expired or is not valid; reload the invoice'));
-    res.locals.viewerId = viewerId;
-    next();
-  };
+  const pdfViewer = bearerOrAccessLink(auth, (access, req) => verifyInvoicePdfAccess(ctx.tokenSecret, access, param(req, 'id')), 'This download link has expired or is not valid; reload the invoice');
   router.get('/invoices/:id/pdf', pdfViewer, async (req, res) => {
     // The invoices policy first (404 to anyone but the two parties), then the documents module sends the file.
     const doc = await invoicePdf(ctx, res.locals.viewerId as string, param(req, 'id'));
