@@ -90,7 +90,9 @@ describe('Phone speed and the offline shell', () => {
     const names = scripts.map((r) => new URL(r.url()).pathname.split('/').pop()!);
     expect(names.some((n) => n.startsWith('sign-in-'))).toBe(true);
     expect(names.filter((n) => /^(calculator|bid|index)-/.test(n))).toEqual([]);
-    // The web fonts are the WOFF2 subsets from this server.
+    // The faces wait in the HTML (media="not all") and swap in once the app runs: WOFF2 subsets from this server.
+    expect(html).toContain('<style id="fieldfold-fonts" media="not all">');
+    await b.page.waitForFunction("Array.from(document.fonts).some((f) => f.family.startsWith('PublicSans') && f.status === 'loaded')");
     expect(fonts.length).toBeGreaterThan(0);
     for (const f of fonts) expect(f).toMatch(new RegExp(`^${BASE_URL}/assets/.+\\.woff2$`));
   });

@@ -1,11 +1,14 @@
 import { Asset } from 'expo-asset';
 import { unicodeRange, type FontSubset } from '@/components/ui/font-subsets';
-import { WEB_FONT_FILES } from './web-font-files';
+import { WEB_FONT_FILES, WEB_FONT_STYLE_ID } from './web-font-files';
 
 /**
- * The @font-face rules every page's HTML carries (app/+html.tsx, rendered at build time). No preload: a preloaded
- * font holds Chromium's first paint and takes bandwidth from the scripts; declared this way, the browser fetches a
- * file when a screen first shows one of its characters (unicode-range), paints the fallback face at once and swaps.
+ * The @font-face rules every page's HTML carries (app/+html.tsx, rendered at build time), switched off
+ * (`media="not all"`) until the app has taken over the page: on a slow link the first screen's scripts get the
+ * whole bandwidth, the static HTML paints and becomes usable in the fallback face, and the faces swap in after.
+ * No preload either: a preloaded font holds Chromium's first paint. Once on, the browser fetches a file when a
+ * screen first shows one of its characters (unicode-range) and swaps (font-display: swap). Without JavaScript
+ * the fallback face stays, which reads just as well.
  */
 export function WebFontFaces() {
   const css = Object.entries(WEB_FONT_FILES)
@@ -15,5 +18,5 @@ export function WebFontFaces() {
       ),
     )
     .join('\n');
-  return <style id="fieldfold-fonts" dangerouslySetInnerHTML={{ __html: css }} />;
+  return <style id={WEB_FONT_STYLE_ID} media="not all" dangerouslySetInnerHTML={{ __html: css }} />;
 }
