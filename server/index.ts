@@ -53,6 +53,11 @@ async function main() {
     }
   });
 
+  // Idle keep-alive connections stay open longer than a load balancer's or a client pool's idle timeout (commonly
+  // 60 s): Node's 5 s default closes a socket just as a client reuses it, and that request fails ("other side closed").
+  server.keepAliveTimeout = 65_000;
+  server.headersTimeout = 66_000;
+
   let closing = false;
   const shutdown = (signal: string) => {
     if (closing) return;
