@@ -24,7 +24,7 @@ import { TEST_NOW, TEST_TOKENS } from './test-app';
 //                         on the real clock, started one after another (the first runs the migrations).
 //                         Extra server variables go in RACE_SERVER_ENV as JSON — DATABASE_URL for PostgreSQL
 //                         (issue 12); openSharedDatabase() below is where the test's own connection to that
-//                         database is opened, for the assertions.
+//                         database is opened, for the assertions. RACE_DEBUG=1 prints the servers' output at close.
 //
 // Either way the payments fake runs inside the test process with its webhooks held (autoDeliver off), so a
 // test takes a signed delivery and posts it to whichever server it likes, as many times as it likes. Mail is
