@@ -10,10 +10,16 @@ import { OutboxSender } from './lib/mail/outbox';
 import { SmtpMail } from './lib/mail/smtp-mail';
 import { createPayments } from './lib/payments';
 import { InvoiceRecovery } from './modules/invoices/invoice-sync';
+import { registerRunning, runningProcesses } from './lib/running-servers';
 
 // config → database (migrations) → demo seed (once) → listen → graceful shutdown.
 async function main() {
   const config = loadConfig();
+  // DATA_DIR/running/<pid>.json says a server uses this folder (npm run restore refuses while one does); written
+  // before the database opens, so a restore that begins now sees it, and a restore already running stops us.
+  const unregister = registerRunning(config.dataDir, 'server', { port: config.port });
+  const restoring = runningProcesses(config.dataDir).find((p) => p.role === 'restore');
+  if (restoring) throw new ConfigError(`Fieldfold cannot start: a restore (process ${restoring.pid}) is replacing the data in ${config.dataDir}; start again once it has finished`);
   const dataSource = await openDatabase(config.databasePath);
   if (config.seedDemo) {
     const seeded = await seedDemoOnce(dataSource);
@@ -67,6 +73,7 @@ async function main() {
       await invoiceRecovery.stop();
       await outbox.stop();
       await dataSource.destroy();
+      unregister();
       process.exit(0);
     });
     setTimeout(() => process.exit(0), 5000).unref();

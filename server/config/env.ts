@@ -123,6 +123,14 @@ function parseEnv(env: NodeJS.ProcessEnv): Env {
   }
 }
 
+/** The SQLite database's file name inside DATA_DIR (the backup and restore commands use it too). */
+export const DATABASE_FILE = 'fieldfold.sqlite';
+
+/** DATA_DIR as the server resolves it, without creating anything (for operator commands such as backup). */
+export function resolveDataDir(env: NodeJS.ProcessEnv = process.env, root = process.cwd()): string {
+  return path.resolve(root, parseEnv(env).DATA_DIR);
+}
+
 export function loadConfig(env: NodeJS.ProcessEnv = process.env, root = process.cwd()): Config {
   const parsed = parseEnv(env);
   const dataDir = path.resolve(root, parsed.DATA_DIR);
@@ -131,7 +139,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, root = process.
     port: parsed.PORT,
     host: parsed.HOST,
     dataDir,
-    databasePath: path.join(dataDir, 'fieldfold.sqlite'),
+    databasePath: path.join(dataDir, DATABASE_FILE),
     publicUrl: parsed.PUBLIC_URL ?? `http://localhost:${parsed.PORT}`,
     tokenSecret: parsed.TOKEN_SECRET ?? localSecret(dataDir),
     tokenTtl: parsed.TOKEN_TTL,

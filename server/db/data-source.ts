@@ -46,8 +46,9 @@ export function createDataSource(database: string): DataSource {
     // WAL lets the PDF and mail work read while a request writes; the busy timeout waits out a short lock
     // instead of failing with SQLITE_BUSY.
     // The market's SQL calls lib's distance function (server/db/sql-functions.ts).
-    prepareDatabase: (db: { pragma: (s: string) => unknown } & Parameters<typeof registerSqlFunctions>[0]) => {
+    prepareDatabase: (db: { pragma: (s: string) => unknown; prepare: (sql: string) => unknown } & Parameters<typeof registerSqlFunctions>[0]) => {
       if (database !== ':memory:') db.pragma('journal_mode = WAL');
+      beginImmediate(db);
       // synchronous = FULL (SQLite's default, kept on purpose): a commit that answered 2xx — a signature, an agreed
       // figure, a paid invoice — survives a power or OS failure too. NORMAL would save the fsync (about 5 ms per commit,
       // measured here, on the event loop) but can lose the last commits to a power cut (SQLite documentation,
@@ -58,6 +59,23 @@ export function createDataSource(database: string): DataSource {
       registerSqlFunctions(db);
     },
   });
+}
+
+/**
+ * Every transaction takes SQLite's write lock at BEGIN (BEGIN IMMEDIATE), not at its first write.
+ *
+ * TypeORM's SQLite query runner always sends a deferred `BEGIN TRANSACTION`. A deferred transaction that reads and
+ * then writes — every use case here: check the state, then change it — cannot wait for another connection's write:
+ * its snapshot is already older than that write, so SQLite answers SQLITE_BUSY ("database is locked") at once,
+ * busy timeout or not. Within one process the transaction queue (server/lib/db/transaction.ts) keeps that from
+ * happening; across processes on one file (a second server, an operator command such as make-admin) it turned
+ * racing requests into 500s (__tests__/server/races.test.ts, "processes"). An immediate transaction instead waits
+ * its turn for up to the busy timeout and then reads the latest state. The driver offers no option for this, so
+ * its one BEGIN statement is rewritten where it is prepared.
+ */
+function beginImmediate(db: { prepare: (sql: string) => unknown }): void {
+  const prepare = db.prepare.bind(db);
+  db.prepare = (sql: string) => prepare(sql === 'BEGIN TRANSACTION' ? 'BEGIN IMMEDIATE TRANSACTION' : sql);
 }
 
 export async function openDatabase(database: string): Promise<DataSource> {

@@ -115,7 +115,9 @@ export class OutboxSender implements MailOutbox {
         await this.failed(row, err);
         continue;
       }
-      await inTransaction(this.ds, (tx) => tx.update(OutboxMessage, { id: row.id }, { status: 'sent', sentAt: this.now(), claimedUntil: null, lastError: null }));
+      // Only while the lease is still ours (`claimedUntil` is the one this sender set): a sender whose send outlived
+      // its lease has been overtaken by another, and its late answer must not touch that one's claim.
+      await inTransaction(this.ds, (tx) => tx.update(OutboxMessage, { id: row.id, claimedUntil: row.claimedUntil! }, { status: 'sent', sentAt: this.now(), claimedUntil: null, lastError: null }));
       sent += 1;
     }
     return sent;
@@ -123,16 +125,20 @@ export class OutboxSender implements MailOutbox {
 
   /** A conditional UPDATE: only one sender (of any process) wins the row until its lease runs out. */
   private async claim(row: OutboxMessage, now: number): Promise<boolean> {
+    const lease = now + OUTBOX_LEASE_MS;
     const res = await inTransaction(this.ds, (tx) =>
       tx
         .createQueryBuilder()
         .update(OutboxMessage)
-        .set({ claimedUntil: now + OUTBOX_LEASE_MS, attempts: () => 'attempts + 1' })
+        .set({ claimedUntil: lease, attempts: () => 'attempts + 1' })
         .where('id = :id AND status = :pending', { id: row.id, pending: 'pending' })
         .andWhere('(claimed_until IS NULL OR claimed_until <= :now)', { now })
         .execute(),
     );
-    if (res.affected === 1) row.attempts += 1;
+    if (res.affected === 1) {
+      row.attempts += 1;
+      row.claimedUntil = lease;
+    }
     return res.affected === 1;
   }
 
@@ -141,7 +147,7 @@ export class OutboxSender implements MailOutbox {
     const delay = OUTBOX_BACKOFF_MS[Math.min(row.attempts - 1, OUTBOX_BACKOFF_MS.length - 1)];
     // Subject only in the log: addresses and bodies stay out of logs.
     this.log(`[mail] "${row.subject.replace(/[\r\n\t]+/g, ' ')}" not sent (attempt ${row.attempts}), retrying in ${Math.round(delay / 1000)} s: ${reason}`);
-    await inTransaction(this.ds, (tx) => tx.update(OutboxMessage, { id: row.id }, { claimedUntil: null, nextAttemptAt: this.now() + delay, lastError: reason }));
+    await inTransaction(this.ds, (tx) => tx.update(OutboxMessage, { id: row.id, claimedUntil: row.claimedUntil! }, { claimedUntil: null, nextAttemptAt: this.now() + delay, lastError: reason }));
   }
 }
 

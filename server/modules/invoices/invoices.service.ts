@@ -2,6 +2,7 @@ import crypto from 'node:crypto';
 import type { EntityManager } from 'typeorm';
 import { AppError } from '../../lib/errors/app-error';
 import { inTransaction } from '../../lib/db/transaction';
+import { isUniqueViolation } from '../../lib/db/unique-violation';
 import { check } from '../../lib/http/validate';
 import { hasRole } from '../../lib/http/auth';
 import { PaymentsUnavailableError, type PaymentOutcome } from '../../lib/payments';
@@ -30,6 +31,14 @@ import {
 /** How long one payment attempt owns an invoice: longer than the SDK's timeout with its retries. */
 export const PAY_LEASE_MS = 90_000;
 
+/** 409 naming the contract's invoice, with its address in Location. */
+function alreadyInvoiced(existing: Invoice): AppError {
+  const label = invoiceNumberLabel(existing.numberPrefix, existing.number);
+  return new AppError(409, 'already_invoiced', `This contract is invoiced already: invoice ${label} (${existing.id}).`, undefined, {
+    Location: `/api/invoices/${existing.id}`,
+  });
+}
+
 async function viewOf(ctx: ServiceContext, viewer: Account, inv: Invoice, em: EntityManager = ctx.ds.manager): Promise<InvoiceView> {
   const [view] = await invoiceViews(em, ctx, viewer.id, [inv]);
   return view;
@@ -40,6 +49,8 @@ async function viewOf(ctx: ServiceContext, viewer: Account, inv: Invoice, em: En
  * invoiced, the next number of the grazier's sequence is taken (a conditional UPDATE of their counter, the unique
  * (grazier, number) index behind it), the lines are computed by lib/ and the invoice row is written. After the
  * commit the invoice is created in the payments API and its PDF rendered; neither runs inside the transaction.
+ * Two requests racing past the check in different processes meet the unique contract index: the loser answers
+ * the same 409 as a request that came late.
  */
 export async function createInvoice(ctx: ServiceContext, viewer: Account, contractId: string, body: unknown): Promise<InvoiceView> {
   const input = await check(createInvoiceSchema, body ?? {});
@@ -48,12 +59,7 @@ export async function createInvoice(ctx: ServiceContext, viewer: Account, contra
     const contract = await tx.findOneBy(Contract, { id: contractId });
     assertMayInvoice(viewer, contract);
     const existing = await tx.findOneBy(Invoice, { contractId: contract.id });
-    if (existing) {
-      const label = invoiceNumberLabel(existing.numberPrefix, existing.number);
-      throw new AppError(409, 'already_invoiced', `This contract is invoiced already: invoice ${label} (${existing.id}).`, undefined, {
-        Location: `/api/invoices/${existing.id}`,
-      });
-    }
+    if (existing) throw alreadyInvoiced(existing);
     if (contract.status !== 'agreed') {
       throw AppError.conflict('Invoice once both of you have agreed the head-days at sign-off.', 'not_agreed');
     }
@@ -110,6 +116,10 @@ export async function createInvoice(ctx: ServiceContext, viewer: Account, contra
       .execute();
     if (moved.affected !== 1) throw AppError.conflict('The contract changed meanwhile; reload it and try again.', 'contract_changed');
     return id;
+  }).catch(async (err: unknown) => {
+    if (!isUniqueViolation(err)) throw err;
+    const winner = await ctx.ds.manager.findOneBy(Invoice, { contractId });
+    throw winner ? alreadyInvoiced(winner) : AppError.conflict('Invoices are being numbered by another request; try again.', 'numbering_busy');
   });
   // After the commit: the payments API (idempotent, retried later if it is down), then the PDF once it is sent.
   await syncInvoice(ctx, invoiceId);
