@@ -1,6 +1,7 @@
 import type { RequestHandler } from 'express';
 import { ValidationError, type AnyObjectSchema } from 'yup';
 import { AppError, type FieldErrors } from '../errors/app-error';
+import { listCapProblems } from './list-caps';
 
 export function fieldErrorsFromYup(err: ValidationError): FieldErrors {
   const fields: FieldErrors = {};
@@ -57,6 +58,8 @@ export function assertJsonObject(value: unknown): asserts value is Record<string
 /** Validate a value against a shared schema and return the typed result, or throw a 400 naming every bad field. */
 export async function check<S extends AnyObjectSchema>(schema: S, value: unknown): Promise<ReturnType<S['validateSync']>> {
   assertJsonObject(value);
+  const tooLong = listCapProblems(schema, value);
+  if (tooLong) throw AppError.badRequest('Some fields need attention', tooLong);
   try {
     return await schema.validate(value, { abortEarly: false, stripUnknown: false });
   } catch (err) {
