@@ -122,7 +122,11 @@ export type CapacityRequest = yup.InferType<typeof capacityRequestSchema>;
 
 // ——— POST /api/calc/head-days ———
 
-export const MAX_MOVES = 10_000;
+/**
+ * Moves in one count. A stay logs a few moves a day at most; checking each costs the server about 0.1 ms (more
+ * when each is wrong and needs its own error), so 10 000 could hold it for a second — 2 000 stays well under.
+ */
+export const MAX_MOVES = 2_000;
 
 const moveSchema = rejectUnknown(
   yup
