@@ -45,6 +45,7 @@ export const registerSchema = rejectUnknown(
       )
       .strict()
       .min(1, 'Choose at least one role: grower or grazier')
+      .max(SIGNUP_ROLES.length, 'Choose grower, grazier or both')
       .required('Choose at least one role: grower or grazier'),
   }),
 );

@@ -122,7 +122,11 @@ export type CapacityRequest = yup.InferType<typeof capacityRequestSchema>;
 
 // ——— POST /api/calc/head-days ———
 
-export const MAX_MOVES = 10_000;
+/**
+ * Moves in one count. A stay logs a few moves a day at most; checking each costs the server about 0.1 ms (more
+ * when each is wrong and needs its own error), so 10 000 could hold it for a second — 2 000 stays well under.
+ */
+export const MAX_MOVES = 2_000;
 
 const moveSchema = rejectUnknown(
   yup
@@ -164,6 +168,13 @@ function checkMoveSequence(this: yup.TestContext, moves: unknown): true | yup.Va
   return true;
 }
 
+/**
+ * The longest count the calculator makes, first move to end time: a year and a day covers any stay and a whole
+ * season's log. The work (and the `byDay` list) grows with the days counted, so an open-ended span would let one
+ * request from anyone hold the server.
+ */
+export const MAX_COUNT_DAYS = 366;
+
 export const headDaysRequestSchema = rejectUnknown(
   yup.object({
     moves: yup
@@ -181,6 +192,13 @@ export const headDaysRequestSchema = rejectUnknown(
         if (end === null || !Array.isArray(moves)) return true;
         const times = moves.map((m: { at?: unknown } | null) => parseIsoInstant(m?.at)).filter((t): t is number => t !== null);
         return times.length === 0 || end >= Math.max(...times);
+      })
+      .test('within-span', `End time must be at most ${MAX_COUNT_DAYS} days after the first move`, function (until) {
+        const end = parseIsoInstant(until);
+        const moves: unknown = this.parent?.moves;
+        if (end === null || !Array.isArray(moves)) return true;
+        const first = parseIsoInstant((moves[0] as { at?: unknown } | null)?.at);
+        return first === null || end - first <= MAX_COUNT_DAYS * 86_400_000;
       }),
     timeZone: str('Time zone')
       .optional()

@@ -1,7 +1,7 @@
 import crypto from 'node:crypto';
 import type { EntityManager } from 'typeorm';
 import { AppError } from '../../lib/errors/app-error';
-import { check } from '../../lib/http/validate';
+import { assertJsonObject, check } from '../../lib/http/validate';
 import { inTransaction } from '../../lib/db/transaction';
 import { isUniqueViolation } from '../../lib/db/unique-violation';
 import { queueMail } from '../../lib/mail/outbox';
@@ -97,14 +97,14 @@ export async function placeBid(ctx: ServiceContext, caller: Account, blockId: st
 
 /** The grazier changes their live bid; it is checked again in full against the block as it is now. */
 export async function updateBid(ctx: ServiceContext, caller: Account, bidId: string, patch: unknown): Promise<BidView> {
-  if (patch === null || typeof patch !== 'object' || Array.isArray(patch)) throw AppError.badRequest('The request body must be a JSON object');
+  assertJsonObject(patch);
   await inTransaction(ctx.ds, async (tx) => {
     const bid = await tx.findOneBy(Bid, { id: bidId });
     const block = bid ? await tx.findOneBy(Block, { id: bid.blockId }) : null;
     assertBidder(caller, bid, block);
     assertBidLive(bid);
     assertBlockOpen(block!);
-    const input = await checkBid({ ...bidInputOf(bid), ...(patch as Record<string, unknown>) });
+    const input = await checkBid({ ...bidInputOf(bid), ...patch });
     assertStayFits(stayConflicts(input, block!, todayAt(ctx, block!)));
     assertPriceable(input, block!);
     await tx.update(Bid, { id: bid.id, status: 'live' }, bidRecord(input));

@@ -2,7 +2,7 @@ import express, { Router } from 'express';
 import { AppError } from '../../lib/errors/app-error';
 import { bearerOrAccessLink, requireAuth, requireRole, signedIn } from '../../lib/http/auth';
 import { param } from '../../lib/http/params';
-import { WebhookVerificationError } from '../../lib/payments';
+import { WebhookEventError, WebhookVerificationError } from '../../lib/payments';
 import type { ServiceContext } from '../../lib/service-context';
 import { createInvoice, getInvoice, invoicePdf, listInvoices, payInvoice, voidInvoice } from './invoices.service';
 import { applyPaymentEvent } from './payment-events';
@@ -60,6 +60,7 @@ export function paymentsWebhookRouter(ctx: ServiceContext): Router {
     try {
       event = ctx.payments.verifyWebhook(raw, req.get('stripe-signature') ?? undefined);
     } catch (err) {
+      if (err instanceof WebhookEventError) throw new AppError(400, 'bad_event', `The webhook verified but is not an event Fieldfold can read: ${err.message}`);
       if (err instanceof WebhookVerificationError) throw new AppError(400, 'bad_signature', `The webhook signature did not verify: ${err.message}`);
       throw err;
     }
