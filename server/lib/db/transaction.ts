@@ -28,11 +28,33 @@ function serialisesWrites(ds: DataSource): boolean {
   return ds.options.type === 'better-sqlite3';
 }
 
+/** PostgreSQL's deadlock_detected: it rolled one of two transactions back whole, so running it again is safe. */
+const DEADLOCK = '40P01';
+const DEADLOCK_RETRIES = 3;
+
+function isDeadlock(err: unknown): boolean {
+  const e = err as { code?: string; driverError?: { code?: string } } | null;
+  return (e?.driverError?.code ?? e?.code) === DEADLOCK;
+}
+
+/** On PostgreSQL: the work in its own transaction, run again (a few times) if the server broke a deadlock with it. */
+async function withDeadlockRetry<T>(run: () => Promise<T>): Promise<T> {
+  for (let attempt = 1; ; attempt++) {
+    try {
+      return await run();
+    } catch (err) {
+      if (!isDeadlock(err) || attempt > DEADLOCK_RETRIES) throw err;
+    }
+  }
+}
+
 export function inTransaction<T>(ds: DataSource, work: (tx: EntityManager) => Promise<T>): Promise<T> {
   // A nested call on SQLite would queue behind the transaction that is waiting for it: a silent deadlock.
   if (inside.getStore() === ds) return Promise.reject(new NestedTransactionError());
   const body = () => inside.run(ds, () => ds.transaction(work));
-  if (!serialisesWrites(ds)) return body();
+  // Use cases take their rows in a fixed order (the contract or block first) so they queue rather than deadlock;
+  // the retry covers an order not foreseen. A transaction body has no effect outside the database (STYLE.md 13).
+  if (!serialisesWrites(ds)) return withDeadlockRetry(body);
   const previous = queues.get(ds) ?? Promise.resolve();
   const run = previous.then(body, body);
   // The queue only orders; a failed transaction must not block the next one.

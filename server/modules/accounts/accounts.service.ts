@@ -5,6 +5,7 @@ import type { DataSource } from 'typeorm';
 import { AppError } from '../../lib/errors/app-error';
 import { accountRoles } from '../../lib/http/auth';
 import { Account, Session } from './account.entity';
+import { isUniqueViolation } from '../../lib/db/unique-violation';
 import { inTransaction } from '../../lib/db/transaction';
 import type { AccountView, LoginInput, ProfileInput, RegisterInput } from '../../../lib/schemas/account';
 import type { Role } from '../../../lib/roles';
@@ -66,16 +67,22 @@ export async function register(ds: DataSource, input: RegisterInput, tokens: Tok
   const email = input.email.toLowerCase();
   const roles = [...new Set([...input.roles, ...extraRoles])];
   const passwordHash = await bcrypt.hash(input.password, BCRYPT_COST);
-  // Check and insert in one queued transaction: two sign-ups racing for one email give one account and one 409.
-  const account = await inTransaction(ds, async (tx) => {
-    const repo = tx.getRepository(Account);
-    if (await repo.existsBy({ email })) {
-      throw new AppError(409, 'email_taken', 'An account with this email already exists. Sign in instead.', { email: 'This email already has an account' });
-    }
-    return repo.save(
-      repo.create({ id: crypto.randomUUID(), email, passwordHash, name: input.name, roles: roles.join(','), activeRole: input.roles[0] ?? null }),
-    );
-  });
+  // The lookup answers the usual case; the unique email index decides a race (two sign-ups at once, on any
+  // number of server processes): the second insert fails and gets the same 409.
+  const taken = () => new AppError(409, 'email_taken', 'An account with this email already exists. Sign in instead.', { email: 'This email already has an account' });
+  let account: Account;
+  try {
+    account = await inTransaction(ds, async (tx) => {
+      const repo = tx.getRepository(Account);
+      if (await repo.existsBy({ email })) throw taken();
+      return repo.save(
+        repo.create({ id: crypto.randomUUID(), email, passwordHash, name: input.name, roles: roles.join(','), activeRole: input.roles[0] ?? null }),
+      );
+    });
+  } catch (err) {
+    if (isUniqueViolation(err)) throw taken();
+    throw err;
+  }
   return openSession(ds, account, tokens);
 }
 

@@ -1,4 +1,5 @@
 import { inTransaction } from '../../lib/db/transaction';
+import { isUniqueViolation } from '../../lib/db/unique-violation';
 import type { PaymentEvent } from '../../lib/payments';
 import { Invoice, PaymentEventRecord } from './invoice.entity';
 import type { ServiceContext } from '../../lib/service-context';
@@ -60,6 +61,14 @@ export async function applyPaymentEvent(ctx: ServiceContext, event: PaymentEvent
     invoiceId = invoice?.id ?? null;
     await tx.insert(PaymentEventRecord, { id: event.id, type: event.type, invoiceId: invoice?.id ?? null, outcome: result, receivedAt: ctx.now() });
     return result;
+  }).catch((err: unknown): EventOutcome => {
+    // The same event delivered twice at once (to two server processes): both passed the lookup, the conditional
+    // UPDATEs let one change the invoice, and the event's primary key refuses the other's record, undoing it whole.
+    if (isUniqueViolation(err)) {
+      invoiceId = null;
+      return 'duplicate';
+    }
+    throw err;
   });
   if (outcome === 'applied' && invoiceId) {
     ctx.outbox.kick();
