@@ -8,8 +8,10 @@ import { sqlDialect } from '../sql-dialect';
 // The body is lib/geo distanceMiles step by step in float8: the same haversine, the same order of operations and
 // the same constants (π/180, the mean Earth radius 6 371 008.8 m and the international mile 1 609.344 m are the
 // doubles lib computes: each literal is the shortest decimal of its double). sqrt and the arithmetic are correctly
-// rounded on both sides; sin, cos and asin come from the C library here and V8's own there, which agree to the last
-// bit nearly always, so only a block within an ulp of the limit could fall the other way.
+// rounded on both sides, but sin, cos and asin come from the C library here and from V8's own code in lib, which
+// differ in the last bit for about one point in three: the two distances agree to a few units in the last place
+// (__tests__/server/schema-engines.test.ts), so only a block within about 1e-15 miles per mile of the limit could be
+// in on one engine and out on the other.
 export class PostgresFunctions1766200000000 implements MigrationInterface {
   name = 'PostgresFunctions1766200000000';
 
