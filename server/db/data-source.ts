@@ -19,6 +19,7 @@ import { Documents1765200000000 } from './migrations/1765200000000-documents';
 import { Invoices1765300000000 } from './migrations/1765300000000-invoices';
 import { MarketFigures1765400000000 } from './migrations/1765400000000-market-figures';
 import { PostgresFunctions1766200000000 } from './migrations/1766200000000-postgres-functions';
+import { RateLimitHits1766200000100 } from './migrations/1766200000100-rate-limit-hits';
 import { registerSqlFunctions } from './sql-functions';
 
 export const entities = [Account, Session, Block, BlockPhoto, Bid, Contract, ContractSignature, ContractAmendment, LogEntry, LogPhoto, SignOff, OutboxMessage, Document, Invoice, InvoiceCounter, PaymentEventRecord, PaymentCustomer];
@@ -33,6 +34,7 @@ export const migrations = [
   Invoices1765300000000,
   MarketFigures1765400000000,
   PostgresFunctions1766200000000,
+  RateLimitHits1766200000100,
 ];
 
 /** Where the data lives: a SQLite file path (':memory:' for tests) or a postgres:// URL (DATABASE_URL). */
