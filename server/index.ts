@@ -20,11 +20,12 @@ async function main() {
   const unregister = registerRunning(config.dataDir, 'server', { port: config.port });
   const restoring = runningProcesses(config.dataDir).find((p) => p.role === 'restore');
   if (restoring) throw new ConfigError(`Fieldfold cannot start: a restore (process ${restoring.pid}) is replacing the data in ${config.dataDir}; start again once it has finished`);
-  const dataSource = await openDatabase(config.databasePath);
-  if (config.seedDemo) {
-    const seeded = await seedDemoOnce(dataSource);
+  // With several processes on one PostgreSQL database, one migrates and seeds while the others wait (data-source.ts).
+  const dataSource = await openDatabase(config.databaseUrl ?? config.databasePath, async (ds) => {
+    if (!config.seedDemo) return;
+    const seeded = await seedDemoOnce(ds);
     if (seeded) console.log('[fieldfold] demo data seeded (see README for the demo accounts)');
-  }
+  });
   // npm start sets SMTP_PORT to the local mail sink; without it mail stays in memory and each message is
   // announced by its subject, JSON-quoted so a subject can never break the log line.
   const mail: MailPort = config.smtp
@@ -52,7 +53,8 @@ async function main() {
   const server: Server = app.listen(config.port, config.host, () => {
     const addr = server.address();
     const port = typeof addr === 'object' && addr ? addr.port : config.port;
-    console.log(`[fieldfold] listening on http://localhost:${port} (data in ${config.dataDir})`);
+    const database = config.databaseUrl ? `PostgreSQL at ${postgresLabel(config.databaseUrl)}` : 'SQLite';
+    console.log(`[fieldfold] listening on http://localhost:${port} (${database}; files in ${config.dataDir})`);
     if (config.smtp) {
       const inbox = config.mailUiPort ? ` (local inbox: http://localhost:${config.mailUiPort})` : '';
       console.log(`[fieldfold] mail goes to SMTP ${config.smtp.host}:${config.smtp.port}${inbox}`);
@@ -80,6 +82,12 @@ async function main() {
   };
   process.on('SIGINT', () => shutdown('SIGINT'));
   process.on('SIGTERM', () => shutdown('SIGTERM'));
+}
+
+/** host:port/database of a DATABASE_URL, without the user and password (for the start-up line). */
+function postgresLabel(url: string): string {
+  const u = new URL(url);
+  return `${u.host}${u.pathname}`;
 }
 
 main().catch((err) => {

@@ -4,6 +4,7 @@ import path from 'node:path';
 import request from 'supertest';
 import type { DataSource } from 'typeorm';
 import { openDatabase } from '../../server/db/data-source';
+import { freshTestDatabase } from './test-database';
 import { createApp, serviceContext, type AppDeps } from '../../server/app';
 import { MemoryMail } from '../../server/lib/mail/memory-mail';
 import { OutboxSender } from '../../server/lib/mail/outbox';
@@ -28,9 +29,10 @@ export interface TestAppOptions {
   webDir?: string;
 }
 
-/** A fresh in-memory SQLite that ran the real migrations, and the real app on top of it. */
+/** A fresh database that ran the real migrations (in-memory SQLite, or PostgreSQL: helpers/test-database.ts), and the real app on top of it. */
 export async function makeTestApp(options: TestAppOptions = {}) {
-  const dataSource = await openDatabase(':memory:');
+  const database = await freshTestDatabase();
+  const dataSource = await openDatabase(database.target);
   const uploadsDir = fs.mkdtempSync(path.join(os.tmpdir(), 'fieldfold-uploads-'));
   const documentsDir = fs.mkdtempSync(path.join(os.tmpdir(), 'fieldfold-documents-'));
   const mail = new MemoryMail();
@@ -81,6 +83,7 @@ export async function makeTestApp(options: TestAppOptions = {}) {
     close: async () => {
       await outbox.stop();
       await (dataSource as DataSource).destroy();
+      await database.drop();
       fs.rmSync(uploadsDir, { recursive: true, force: true });
       fs.rmSync(documentsDir, { recursive: true, force: true });
     },

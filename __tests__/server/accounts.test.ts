@@ -175,6 +175,6 @@ describe('Concurrent sign-ups', () => {
     const [a, b] = await Promise.all([request(t.app).post('/api/auth/register').send(body), request(t.app).post('/api/auth/register').send(body)]);
     expect([a.status, b.status].sort()).toEqual([201, 409]);
     const rows = await t.dataSource.query(`SELECT COUNT(*) AS n FROM accounts WHERE email = 'race@test.example'`);
-    expect(rows[0].n).toBe(1);
+    expect(Number(rows[0].n)).toBe(1);
   });
 });

@@ -57,7 +57,7 @@ async function alone(n, fn) {
   return percentiles(times);
 }
 
-// ——— the same statements, straight on SQLite ———
+// ——— the same statements, straight on the database ———
 
 /**
  * The SQL one call of a service makes, captured through TypeORM's logger in this process (the same compiled
@@ -109,6 +109,21 @@ function ormClock() {
   };
 }
 
+/** p50 of replaying `statements` on PostgreSQL with a pg client of its own (the driver TypeORM uses, without TypeORM). */
+async function replayPostgres(client, statements, n = 300) {
+  const run = async () => {
+    for (const [sql, params] of statements) await client.query(sql, params);
+  };
+  if (n > 1) await run();
+  const times = [];
+  for (let i = 0; i < n; i++) {
+    const s = performance.now();
+    await run();
+    times.push(performance.now() - s);
+  }
+  return percentiles(times);
+}
+
 /** p50 of replaying `statements` with better-sqlite3 directly (prepared once, as TypeORM's statement cache does). */
 const preparedCache = new WeakMap();
 function replay(db, statements, n = 300) {
@@ -158,10 +173,12 @@ function inserter(ds, db, entity) {
 }
 
 /**
- * Writes the season straight into SQLite: migrations through the server's own data source, then one prepared
- * statement per table inside one transaction. Block columns come from the service's own record builder.
+ * Writes the season straight into the database: migrations through the server's own data source, then on SQLite one
+ * prepared statement per table inside one transaction, on PostgreSQL multi-row INSERTs of 500 rows in one
+ * transaction. Block columns come from the service's own record builder. `target` is a SQLite file or a postgres:// URL.
  */
-export async function seedSeason(dbFile, today) {
+export async function seedSeason(target, today) {
+  const dbFile = target;
   const { openDatabase } = require(path.join(root, 'build/server/db/data-source.js'));
   const { validBlockRecord } = require(path.join(root, 'build/server/modules/blocks/blocks.service.js'));
   const { Account } = require(path.join(root, 'build/server/modules/accounts/account.entity.js'));
@@ -170,7 +187,8 @@ export async function seedSeason(dbFile, today) {
   const { Contract } = require(path.join(root, 'build/server/modules/contracts/contract.entity.js'));
   const bcrypt = require('bcryptjs');
   const ds = await openDatabase(dbFile);
-  const db = ds.driver.databaseConnection;
+  const postgres = ds.options.type === 'postgres';
+  const db = postgres ? null : ds.driver.databaseConnection;
   const r = prng(10_000);
   const t0 = Date.parse(`${today}T12:00:00Z`);
   const day = 86_400_000;
@@ -314,6 +332,9 @@ export async function seedSeason(dbFile, today) {
       lbDmPerAcre: block.lbDmPerAcre,
       targetUtilizationPct: block.targetUtilizationPct,
       timeZone: block.timeZone,
+      // Columns the contract-signing migration added (NOT NULL with a default the prepared INSERT would not apply).
+      termsVersion: 1,
+      revision: 0,
       createdAt: new Date(t0),
       updatedAt: new Date(t0),
     });
@@ -328,32 +349,48 @@ export async function seedSeason(dbFile, today) {
     return true;
   });
 
-  const insert = {
-    account: inserter(ds, db, Account),
-    block: inserter(ds, db, Block),
-    bid: inserter(ds, db, Bid),
-    contract: inserter(ds, db, Contract),
-  };
-  db.transaction(() => {
-    accounts.forEach(insert.account);
-    blocks.forEach(insert.block);
-    uniqueBids.forEach(insert.bid);
-    contracts.forEach(insert.contract);
-  })();
-  db.pragma('wal_checkpoint(TRUNCATE)');
+  const count = async (sql) => Number((await ds.query(sql))[0].n);
+  if (postgres) {
+    await ds.transaction(async (tx) => {
+      for (const [entity, rows] of [[Account, accounts], [Block, blocks], [Bid, uniqueBids], [Contract, contracts]]) {
+        for (let i = 0; i < rows.length; i += 500) await tx.createQueryBuilder().insert().into(entity).values(rows.slice(i, i + 500)).updateEntity(false).execute();
+      }
+    });
+    await ds.query('ANALYZE');
+  } else {
+    const insert = {
+      account: inserter(ds, db, Account),
+      block: inserter(ds, db, Block),
+      bid: inserter(ds, db, Bid),
+      contract: inserter(ds, db, Contract),
+    };
+    db.transaction(() => {
+      accounts.forEach(insert.account);
+      blocks.forEach(insert.block);
+      uniqueBids.forEach(insert.bid);
+      contracts.forEach(insert.contract);
+    })();
+    db.pragma('wal_checkpoint(TRUNCATE)');
+  }
   const counts = {
-    openBlocks: db.prepare(`SELECT COUNT(*) n FROM blocks WHERE status = 'open'`).get().n,
-    bids: db.prepare('SELECT COUNT(*) n FROM bids').get().n,
-    contracts: db.prepare('SELECT COUNT(*) n FROM contracts').get().n,
+    openBlocks: await count(`SELECT COUNT(*) AS n FROM blocks WHERE status = 'open'`),
+    bids: await count('SELECT COUNT(*) AS n FROM bids'),
+    contracts: await count('SELECT COUNT(*) AS n FROM contracts'),
   };
-  const logTable = db.prepare(`SELECT name FROM sqlite_master WHERE type = 'table' AND name LIKE '%log%'`).all().map((x) => x.name);
+  const logTable = postgres
+    ? (await ds.query(`SELECT table_name AS name FROM information_schema.tables WHERE table_schema = 'public' AND table_name LIKE '%log%'`)).map((x) => x.name)
+    : db.prepare(`SELECT name FROM sqlite_master WHERE type = 'table' AND name LIKE '%log%'`).all().map((x) => x.name);
   await ds.destroy();
   return { counts, logTable, grower: growers[0], grazier: graziers[0], bidBlock: open[0] };
 }
 
 // ——— the run ———
 
-export async function benchLoad(row) {
+/**
+ * The season's load figures on one engine: SQLite in a throw-away DATA_DIR (the default), or PostgreSQL when
+ * `databaseUrl` names an empty database (npm run bench -- --engines sqlite,postgres makes one on a throw-away cluster).
+ */
+export async function benchLoad(row, { databaseUrl = null } = {}) {
   const misses = [];
   const budget = (what, figure, ok, rule) => {
     row(what, `${figure}   [${rule}: ${ok ? 'ok' : 'MISSED'}]`);
@@ -364,12 +401,12 @@ export async function benchLoad(row) {
   let server;
   try {
     const s0 = performance.now();
-    const dbFile = path.join(dataDir, 'fieldfold.sqlite');
+    const dbFile = databaseUrl ?? path.join(dataDir, 'fieldfold.sqlite');
     const season = await seedSeason(dbFile, today);
-    row('season seeded (straight into SQLite)', `${season.counts.openBlocks.toLocaleString('en-US')} open blocks, ${season.counts.bids.toLocaleString('en-US')} bids, ${season.counts.contracts.toLocaleString('en-US')} contracts in ${((performance.now() - s0) / 1000).toFixed(1)} s`);
+    row('season seeded (straight into the database)', `${season.counts.openBlocks.toLocaleString('en-US')} open blocks, ${season.counts.bids.toLocaleString('en-US')} bids, ${season.counts.contracts.toLocaleString('en-US')} contracts in ${((performance.now() - s0) / 1000).toFixed(1)} s`);
 
     const port = await freePort();
-    server = await startServer({ PORT: String(port), HOST: '127.0.0.1', DATA_DIR: dataDir, NODE_ENV: 'production', SEED_DEMO: 'false' }, { quiet: true });
+    server = await startServer({ PORT: String(port), HOST: '127.0.0.1', DATA_DIR: dataDir, NODE_ENV: 'production', SEED_DEMO: 'false', ...(databaseUrl ? { DATABASE_URL: databaseUrl } : {}) }, { quiet: true });
     const base = `http://127.0.0.1:${port}`;
     const login = async (email) => {
       const res = await fetch(`${base}/api/auth/login`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ email, password: PASSWORD }) });
@@ -385,10 +422,20 @@ export async function benchLoad(row) {
     const { listBlocks } = require(path.join(root, 'build/server/modules/blocks/blocks.service.js'));
     const { listBlockBids } = require(path.join(root, 'build/server/modules/bids/bids.service.js'));
     const { Account } = require(path.join(root, 'build/server/modules/accounts/account.entity.js'));
-    const Database = require('better-sqlite3');
     const ds = await openDatabase(dbFile);
-    const raw = new Database(dbFile, { readonly: true });
-    registerSqlFunctions(raw);
+    let raw;
+    let replayRaw;
+    if (databaseUrl) {
+      const { Client } = require('pg');
+      raw = new Client({ connectionString: databaseUrl });
+      await raw.connect();
+      replayRaw = (statements) => replayPostgres(raw, statements, 1);
+    } else {
+      const Database = require('better-sqlite3');
+      raw = new Database(dbFile, { readonly: true });
+      registerSqlFunctions(raw);
+      replayRaw = async (statements) => replay(raw, statements, 1);
+    }
     const ctx = { ds, now: Date.now, tokenSecret: 'bench-only-secret-long-enough-to-sign', log: () => {}, links: null, outbox: null, photos: null };
     const account = (email) => ds.getRepository(Account).findOneByOrFail({ email });
     const [grazierAccount, growerAccount] = [await account('grazier@bench.example'), await account('grower@bench.example')];
@@ -435,7 +482,7 @@ export async function benchLoad(row) {
             await read.call({ ...read.query });
             service.push(performance.now() - s0);
             orm.push(clock.take());
-            sqlTimes.push(replay(raw, statements, 1).p50);
+            sqlTimes.push((await replayRaw(statements)).p50);
           }
         } finally {
           clock.restore();
@@ -443,14 +490,15 @@ export async function benchLoad(row) {
         const [o, sv, sq] = [percentiles(orm.slice(20)), percentiles(service.slice(20)), percentiles(sqlTimes.slice(20))];
         row(`  alone, one request at a time`, `HTTP p50 ${ms(one.p50)} · p95 ${ms(one.p95)}; the service in-process p50 ${ms(sv.p50)}`);
         budget(
-          `  in TypeORM vs its ${statements.length} SQL statements straight on SQLite`,
-          `ORM p50 ${ms(o.p50)} · SQL p50 ${ms(sq.p50)} · ${(o.p50 / sq.p50).toFixed(1)}×`,
+          `  in TypeORM vs its SQL statements run by the driver alone`,
+          `ORM p50 ${ms(o.p50)} · SQL p50 ${ms(sq.p50)} (${statements.length} statements) · ${(o.p50 / sq.p50).toFixed(1)}×`,
           o.p50 / sq.p50 < BUDGETS.ormOverRaw,
           `ORM over raw < ${BUDGETS.ormOverRaw}×`,
         );
       }
     } finally {
-      raw.close();
+      await raw.end?.();
+      raw.close?.();
       await ds.destroy();
     }
     row("a contract's log with running totals", season.logTable.length ? `not measured: log table ${season.logTable.join(', ')} has no seeder here yet` : 'not measured: no log table yet');

@@ -18,6 +18,8 @@ import { ContractSigningLog1765100000000 } from './migrations/1765100000000-cont
 import { Documents1765200000000 } from './migrations/1765200000000-documents';
 import { Invoices1765300000000 } from './migrations/1765300000000-invoices';
 import { MarketFigures1765400000000 } from './migrations/1765400000000-market-figures';
+import { PostgresFunctions1766200000000 } from './migrations/1766200000000-postgres-functions';
+import { RateLimitHits1766200000100 } from './migrations/1766200000100-rate-limit-hits';
 import { registerSqlFunctions } from './sql-functions';
 
 export const entities = [Account, Session, Block, BlockPhoto, Bid, Contract, ContractSignature, ContractAmendment, LogEntry, LogPhoto, SignOff, OutboxMessage, Document, Invoice, InvoiceCounter, PaymentEventRecord, PaymentCustomer];
@@ -31,10 +33,36 @@ export const migrations = [
   Documents1765200000000,
   Invoices1765300000000,
   MarketFigures1765400000000,
+  PostgresFunctions1766200000000,
+  RateLimitHits1766200000100,
 ];
 
-/** `database` is a file path, or ':memory:' for tests. Migrations only; never synchronize. */
-export function createDataSource(database: string): DataSource {
+/** Where the data lives: a SQLite file path (':memory:' for tests) or a postgres:// URL (DATABASE_URL). */
+export type DatabaseTarget = string;
+
+export function isPostgresTarget(database: DatabaseTarget): boolean {
+  return /^postgres(ql)?:\/\//.test(database);
+}
+
+/** Connections each server process may hold on PostgreSQL (N processes hold up to N times this many). */
+export const POSTGRES_POOL_SIZE = 10;
+
+/** Migrations only; never synchronize. One set of entities and migrations for both engines. */
+export function createDataSource(database: DatabaseTarget): DataSource {
+  if (isPostgresTarget(database)) {
+    return new DataSource({
+      type: 'postgres',
+      url: database,
+      entities,
+      migrations,
+      synchronize: false,
+      migrationsRun: false,
+      logging: false,
+      applicationName: 'fieldfold',
+      // A request waits at most 10 s for a free connection of the pool, then fails (503-like) instead of piling up.
+      extra: { max: POSTGRES_POOL_SIZE, connectionTimeoutMillis: 10_000 },
+    });
+  }
   return new DataSource({
     type: 'better-sqlite3',
     database,
@@ -78,9 +106,38 @@ function beginImmediate(db: { prepare: (sql: string) => unknown }): void {
   db.prepare = (sql: string) => prepare(sql === 'BEGIN TRANSACTION' ? 'BEGIN IMMEDIATE TRANSACTION' : sql);
 }
 
-export async function openDatabase(database: string): Promise<DataSource> {
+/** The advisory lock key that lets one process at a time migrate and seed a PostgreSQL database ("fieldfold"). */
+const STARTUP_LOCK = 0x6669656c64;
+
+/**
+ * Runs `work` while holding the database's start-up lock: on PostgreSQL a session advisory lock, so of several
+ * processes starting together one migrates and seeds while the others wait, then find the work done. On SQLite
+ * `npm start` starts the first process alone and the rest once it answers (scripts/start.mjs).
+ */
+export async function withStartupLock<T>(ds: DataSource, work: () => Promise<T>): Promise<T> {
+  if (ds.options.type !== 'postgres') return work();
+  const runner = ds.createQueryRunner();
+  try {
+    await runner.query('SELECT pg_advisory_lock($1)', [STARTUP_LOCK]);
+    return await work();
+  } finally {
+    await runner.query('SELECT pg_advisory_unlock($1)', [STARTUP_LOCK]).catch(() => undefined);
+    await runner.release();
+  }
+}
+
+/** Opens the database and brings its schema up to date (under the start-up lock). */
+export async function openDatabase(database: DatabaseTarget, afterMigrations?: (ds: DataSource) => Promise<void>): Promise<DataSource> {
   const ds = createDataSource(database);
   await ds.initialize();
-  await ds.runMigrations({ transaction: 'each' });
+  try {
+    await withStartupLock(ds, async () => {
+      await ds.runMigrations({ transaction: 'each' });
+      await afterMigrations?.(ds);
+    });
+  } catch (err) {
+    await ds.destroy();
+    throw err;
+  }
   return ds;
 }

@@ -1,5 +1,5 @@
 import crypto from 'node:crypto';
-import { In, LessThanOrEqual, type DataSource, type EntityManager } from 'typeorm';
+import { In, type DataSource, type EntityManager } from 'typeorm';
 import { inTransaction } from '../db/transaction';
 import type { MailMessage, MailPort } from './mail-port';
 import { OutboxMessage } from './outbox.entity';
@@ -7,8 +7,8 @@ import { OutboxMessage } from './outbox.entity';
 // The durable mail outbox (STYLE.md principle 13). A use case calls `queueMail(tx, …)` inside its own write
 // transaction, so the message exists exactly when the state change it reports was committed. After the
 // commit the use case calls `outbox.kick()`; the sender (also on a timer, for retries and for messages
-// another process queued) claims due rows one at a time with a conditional UPDATE — a lease, so several
-// processes never send one row at once — hands each to the mail adapter, and marks it sent.
+// another process queued) claims due rows one at a time (claimNext: a lease set by a conditional UPDATE, so several
+// processes never send one row at once) — hands each to the mail adapter, and marks it sent.
 //
 // Delivery is at least once: if the process dies after the SMTP server accepted a message and before the
 // row was marked sent, the lease runs out and the message goes again. The alternative (mark first, send
@@ -100,15 +100,11 @@ export class OutboxSender implements MailOutbox {
 
   private async sendDue(): Promise<number> {
     const now = this.now();
-    const due = await this.ds.manager.find(OutboxMessage, {
-      where: { status: 'pending', nextAttemptAt: LessThanOrEqual(now) },
-      order: { nextAttemptAt: 'ASC', createdAt: 'ASC' },
-      take: this.batch,
-    });
     let sent = 0;
-    for (const row of due) {
-      if (row.claimedUntil !== null && row.claimedUntil > now) continue;
-      if (!(await this.claim(row, now))) continue;
+    for (let n = 0; n < this.batch; n++) {
+      const row = await this.claimNext(now);
+      if (row === null) break;
+      if (row === 'lost') continue;
       try {
         await this.mail.send({ id: row.id, to: row.to, subject: row.subject, text: row.text, html: row.html ?? undefined });
       } catch (err) {
@@ -123,23 +119,39 @@ export class OutboxSender implements MailOutbox {
     return sent;
   }
 
-  /** A conditional UPDATE: only one sender (of any process) wins the row until its lease runs out. */
-  private async claim(row: OutboxMessage, now: number): Promise<boolean> {
+  /**
+   * Takes the next due message for this sender: null when none is due, 'lost' when another sender took it first.
+   * The claim is a lease (claimed_until) set by a conditional UPDATE, because the send runs after the commit and
+   * may outlive a connection: only one sender, of any process, wins a row until its lease runs out, and one that
+   * died releases it by time. On PostgreSQL the row is first picked with FOR UPDATE SKIP LOCKED, so senders in
+   * several processes take different rows at once instead of queueing on the same one; on SQLite (one writer at a
+   * time) the conditional UPDATE alone decides.
+   */
+  private async claimNext(now: number): Promise<OutboxMessage | 'lost' | null> {
     const lease = now + OUTBOX_LEASE_MS;
-    const res = await inTransaction(this.ds, (tx) =>
-      tx
+    return inTransaction(this.ds, async (tx) => {
+      const pick = tx
+        .createQueryBuilder(OutboxMessage, 'm')
+        .where('m.status = :pending AND m.next_attempt_at <= :now', { pending: 'pending', now })
+        .andWhere('(m.claimed_until IS NULL OR m.claimed_until <= :now)', { now })
+        .orderBy('m.next_attempt_at', 'ASC')
+        .addOrderBy('m.created_at', 'ASC')
+        .limit(1);
+      if (tx.connection.options.type === 'postgres') pick.setLock('pessimistic_write').setOnLocked('skip_locked');
+      const row = await pick.getOne();
+      if (!row) return null;
+      const res = await tx
         .createQueryBuilder()
         .update(OutboxMessage)
         .set({ claimedUntil: lease, attempts: () => 'attempts + 1' })
         .where('id = :id AND status = :pending', { id: row.id, pending: 'pending' })
         .andWhere('(claimed_until IS NULL OR claimed_until <= :now)', { now })
-        .execute(),
-    );
-    if (res.affected === 1) {
+        .execute();
+      if (res.affected !== 1) return 'lost';
       row.attempts += 1;
       row.claimedUntil = lease;
-    }
-    return res.affected === 1;
+      return row;
+    });
   }
 
   private async failed(row: OutboxMessage, err: unknown): Promise<void> {

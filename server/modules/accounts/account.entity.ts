@@ -1,6 +1,7 @@
 import { Column, CreateDateColumn, Entity, PrimaryColumn, UpdateDateColumn } from 'typeorm';
 
-// Every @Column names its type: tsx/esbuild emit no decorator metadata (shared/STACK.md).
+// Every @Column names its type: tsx/esbuild emit no decorator metadata (shared/STACK.md). A point in time is
+// `type: Date`: datetime text on SQLite, timestamptz on PostgreSQL (server/db/sql-dialect.ts).
 @Entity('accounts')
 export class Account {
   @PrimaryColumn('varchar', { length: 36 })
@@ -49,10 +50,10 @@ export class Account {
   @Column('real', { name: 'flock_body_weight_lb', nullable: true })
   flockBodyWeightLb: number | null;
 
-  @CreateDateColumn({ name: 'created_at', type: 'datetime' })
+  @CreateDateColumn({ name: 'created_at', type: Date })
   createdAt: Date;
 
-  @UpdateDateColumn({ name: 'updated_at', type: 'datetime' })
+  @UpdateDateColumn({ name: 'updated_at', type: Date })
   updatedAt: Date;
 }
 
@@ -65,9 +66,9 @@ export class Session {
   @Column('varchar', { name: 'account_id', length: 36 })
   accountId: string;
 
-  @CreateDateColumn({ name: 'created_at', type: 'datetime' })
+  @CreateDateColumn({ name: 'created_at', type: Date })
   createdAt: Date;
 
-  @Column('datetime', { name: 'expires_at' })
+  @Column({ type: Date, name: 'expires_at' })
   expiresAt: Date;
 }

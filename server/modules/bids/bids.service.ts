@@ -171,12 +171,13 @@ export async function listMyBids(ctx: ServiceContext, viewer: Account, query: un
 
 /**
  * The grower awards a bid. In one transaction: the caller must own the block (checked first, so a stranger
- * learns nothing from a 409) → the block must be open → the bid live and still fitting the block → accept
- * the bid → decline the others → mark the block awarded → create the contract to be signed. Marking the
+ * learns nothing from a 409) → the block must be open → the bid live and still fitting the block → mark the
+ * block awarded → accept the bid → decline the others → create the contract to be signed. Marking the
  * block is a conditional UPDATE (… WHERE status = 'open'): if another award got there first it changes
- * no row and this one rolls back with 409, so two racing awards make exactly one contract. With several
- * processes (PostgreSQL) the loser may instead meet the unique keys first (one accepted bid per block, one
- * contract per block): that is the same 409. Mail goes out after the commit; a mail failure is logged and
+ * no row and this one rolls back with 409, so two racing awards make exactly one contract. It is the first
+ * write, so on PostgreSQL a second award waits on the block's row and never holds a bid the first one must
+ * decline (the other order deadlocks); should the loser still meet a unique key (one accepted bid per block,
+ * one contract per block), that is the same 409. Mail goes out after the commit; a mail failure is logged and
  * never undoes the award.
  */
 export async function awardBid(ctx: ServiceContext, caller: Account, bidId: string): Promise<ContractView> {
@@ -198,9 +199,9 @@ function awardInTransaction(ctx: ServiceContext, caller: Account, bidId: string)
     assertAwardable(stayConflicts(bid, block!));
 
     const at = new Date(ctx.now());
+    await markBlockAwarded(tx, block!, at);
     await acceptBid(tx, bid, at);
     const declined = await declineOtherBids(tx, bid, at);
-    await markBlockAwarded(tx, block!, at);
     const contract = await createContract(tx, block!, bid);
     await queueMail(tx, await awardMails(tx, ctx.links, block!, bid, declined, contract.id), ctx.now());
     return { contract };

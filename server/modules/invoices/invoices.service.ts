@@ -7,6 +7,7 @@ import { check } from '../../lib/http/validate';
 import { hasRole } from '../../lib/http/auth';
 import { PaymentsUnavailableError, type PaymentOutcome } from '../../lib/payments';
 import { Account } from '../accounts/account.entity';
+import { lockContract } from '../contracts/contract-state';
 import { Contract } from '../contracts/contract.entity';
 import { Invoice, InvoiceCounter } from './invoice.entity';
 import type { ServiceContext } from '../../lib/service-context';
@@ -56,7 +57,9 @@ export async function createInvoice(ctx: ServiceContext, viewer: Account, contra
   const input = await check(createInvoiceSchema, body ?? {});
   const terms = input.paymentTermsDays ?? DEFAULT_PAYMENT_TERMS_DAYS;
   const invoiceId = await inTransaction(ctx.ds, async (tx) => {
-    const contract = await tx.findOneBy(Contract, { id: contractId });
+    // Locked first: a second request for the same contract (a double tap, on any process) waits here and then
+    // finds the first one's invoice.
+    const contract = await lockContract(tx, contractId);
     assertMayInvoice(viewer, contract);
     const existing = await tx.findOneBy(Invoice, { contractId: contract.id });
     if (existing) throw alreadyInvoiced(existing);
