@@ -11,6 +11,7 @@ import { errorHandler, notFoundHandler } from './lib/errors/error-handler';
 import type { MailOutbox } from './lib/mail/outbox';
 import { appLinks } from './lib/mail/links';
 import { compressAndCache, webApp } from './lib/http/web-app';
+import { refuseBuiltInKeys } from './lib/http/validate';
 import { localPhotoStore } from './lib/storage/photo-store';
 import { localFileStore } from './lib/storage/file-store';
 import type { PdfRenderer } from './lib/pdf/pdf-renderer';
@@ -72,7 +73,7 @@ export function createApp(deps: AppDeps): Express {
       next();
     });
   }
-  api.use(express.json({ limit: '200kb' }));
+  api.use(express.json({ limit: '200kb' }), refuseBuiltInKeys);
   api.get('/health', async (_req, res) => {
     await deps.dataSource.query('SELECT 1');
     res.json({ ok: true, service: 'fieldfold' });

@@ -51,10 +51,12 @@ export const registerSchema = rejectUnknown(
 
 export type RegisterInput = yup.InferType<typeof registerSchema>;
 
-export const loginSchema = yup.object({
-  email: oneLine(yup.string().strict().email('Email must be a valid address, like name@example.com').required('Email is required'), 'Email'),
-  password: yup.string().strict().required('Password is required'),
-});
+export const loginSchema = rejectUnknown(
+  yup.object({
+    email: oneLine(yup.string().strict().email('Email must be a valid address, like name@example.com').required('Email is required'), 'Email'),
+    password: yup.string().strict().required('Password is required'),
+  }),
+);
 
 export type LoginInput = yup.InferType<typeof loginSchema>;
 
@@ -64,12 +66,14 @@ export const FLOCK_CLASSES = ['dry ewes', 'ewes with lambs', 'weaned lambs', 'we
 const optionalText = (label: string, max: number) =>
   oneLine(yup.string().strict().trim(`${label} must not start or end with spaces`).max(max, `${label} is too long`).nullable(), label);
 
-export const flockSchema = yup.object({
-  species: yup.string().strict().oneOf([...FLOCK_SPECIES], 'Species must be sheep, goats or mixed').required('Species is required'),
-  animalClass: yup.string().strict().oneOf([...FLOCK_CLASSES], 'Class is not one we know').required('Class is required'),
-  headCount: yup.number().strict().integer('Head count must be a whole number').min(1, 'Head count must be at least 1').max(20000, 'Head count must be at most 20 000').required('Head count is required'),
-  bodyWeightLb: yup.number().strict().min(10, 'Typical body weight must be at least 10 lb').max(400, 'Typical body weight must be at most 400 lb').required('Typical body weight is required'),
-});
+export const flockSchema = rejectUnknown(
+  yup.object({
+    species: yup.string().strict().oneOf([...FLOCK_SPECIES], 'Species must be sheep, goats or mixed').required('Species is required'),
+    animalClass: yup.string().strict().oneOf([...FLOCK_CLASSES], 'Class is not one we know').required('Class is required'),
+    headCount: yup.number().strict().integer('Head count must be a whole number').min(1, 'Head count must be at least 1').max(20000, 'Head count must be at most 20 000').required('Head count is required'),
+    bodyWeightLb: yup.number().strict().min(10, 'Typical body weight must be at least 10 lb').max(400, 'Typical body weight must be at most 400 lb').required('Typical body weight is required'),
+  }),
+);
 
 export const profileSchema = rejectUnknown(
   yup.object({
