@@ -10,7 +10,8 @@ import type { PaymentsPort } from './lib/payments';
 import { errorHandler, notFoundHandler } from './lib/errors/error-handler';
 import type { MailOutbox } from './lib/mail/outbox';
 import { appLinks } from './lib/mail/links';
-import { compressAndCache, webApp } from './lib/http/web-app';
+import { compressAndCache, webApp, webAppInlineScriptHashes } from './lib/http/web-app';
+import { apiCors, securityHeaders } from './lib/http/security-headers';
 import { refuseBuiltInKeys } from './lib/http/validate';
 import { localPhotoStore } from './lib/storage/photo-store';
 import { localFileStore } from './lib/storage/file-store';
@@ -62,17 +63,17 @@ export function createApp(deps: AppDeps): Express {
   const app = express();
   app.disable('x-powered-by');
   app.set('trust proxy', 'loopback');
+  app.use(
+    securityHeaders({
+      inlineScriptHashes: deps.webDir ? webAppInlineScriptHashes(deps.webDir) : [],
+      https: (deps.publicUrl ?? '').startsWith('https://'),
+      corsOrigin: deps.corsOrigin ?? null,
+    }),
+  );
   app.use(compressAndCache());
 
   const api = express.Router();
-  if (deps.corsOrigin) {
-    const origin = deps.corsOrigin;
-    api.use((req, res, next) => {
-      res.set({ 'Access-Control-Allow-Origin': origin, 'Access-Control-Allow-Headers': 'Authorization, Content-Type', 'Access-Control-Allow-Methods': 'GET, POST, PATCH, DELETE', Vary: 'Origin' });
-      if (req.method === 'OPTIONS') return void res.status(204).end();
-      next();
-    });
-  }
+  if (deps.corsOrigin) api.use(apiCors(deps.corsOrigin));
   api.use(express.json({ limit: '200kb' }), refuseBuiltInKeys);
   api.get('/health', async (_req, res) => {
     await deps.dataSource.query('SELECT 1');

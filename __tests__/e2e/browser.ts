@@ -13,6 +13,8 @@ export interface Browser {
   page: Page;
   /** Every URL the page asked for that was not on the Fieldfold server (should stay empty: fonts ship with the app). */
   offsite: string[];
+  /** What the content-security policy refused on any page (close() fails the test when it is not empty). */
+  cspViolations: string[];
   close: () => Promise<void>;
 }
 
@@ -31,13 +33,19 @@ export async function openBrowser(viewport: { width: number; height: number }): 
     const url = req.url();
     if (!url.startsWith(BASE_URL) && !url.startsWith('data:') && !url.startsWith('blob:')) offsite.push(url);
   });
+  const cspViolations: string[] = [];
+  context.on('console', (msg) => {
+    if (/Content Security Policy/i.test(msg.text())) cspViolations.push(msg.text());
+  });
   return {
     context,
     page,
     offsite,
+    cspViolations,
     close: async () => {
       await context.close();
       fs.rmSync(profile, { recursive: true, force: true });
+      if (cspViolations.length > 0) throw new Error(`The content-security policy refused: ${cspViolations.join(' | ')}`);
     },
   };
 }

@@ -26,6 +26,10 @@ export interface TestAppOptions {
   payments?: PaymentsPort;
   /** An exported web app to serve beside the API. */
   webDir?: string;
+  /** The Expo dev server's origin, for the CORS tests. */
+  corsOrigin?: string;
+  /** Where people open Fieldfold; default http://fieldfold.test. */
+  publicUrl?: string;
 }
 
 /** A fresh in-memory SQLite that ran the real migrations, and the real app on top of it. */
@@ -46,11 +50,12 @@ export async function makeTestApp(options: TestAppOptions = {}) {
     uploadsDir,
     documentsDir,
     outbox,
-    publicUrl: 'http://fieldfold.test',
+    publicUrl: options.publicUrl ?? 'http://fieldfold.test',
     now,
     pdf: options.pdf,
     payments: options.payments ?? createPayments({ mode: 'fake', secretKey: 'sk_test_nothing_answers', apiUrl: 'http://127.0.0.1:9', webhookSecret: 'whsec_unused_in_these_tests', webhookToleranceSeconds: 300 }),
     webDir: options.webDir,
+    corsOrigin: options.corsOrigin,
   };
   const app = createApp(deps);
   let n = 0;
