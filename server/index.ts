@@ -33,6 +33,7 @@ async function main() {
     tokens: { secret: config.tokenSecret, ttl: config.tokenTtl },
     webDir: config.webDir,
     corsOrigin: config.corsOrigin,
+    trustProxy: config.trustProxy,
     uploadsDir: path.join(config.dataDir, 'uploads'),
     documentsDir: path.join(config.dataDir, 'documents'),
     outbox,
