@@ -18,12 +18,16 @@ import { matchWebRoute, webRouteTable, type WebRouteTable } from './web-routes';
 const HASHED_DIRS = ['_expo', 'assets'];
 const PRECOMPRESSED: expressStaticGzip.ExpressStaticGzipOptions = { enableBrotli: true, orderPreference: ['br', 'gzip'], index: false };
 
-/** Put first: compresses dynamic responses and keeps every /api answer out of caches. */
+/**
+ * Put first: compresses dynamic responses and keeps every /api answer out of every cache, the browser's too
+ * (a signed-in answer must not be read back from disk after sign-out). Set before any route runs, so errors,
+ * 404s and 429s carry it as well; only a route that sends a file (a photo, a PDF) sets its own.
+ */
 export function compressAndCache(): RequestHandler[] {
   return [
     compression(),
     (req, res, next) => {
-      if (req.path.startsWith('/api/')) res.set('Cache-Control', 'no-store');
+      if (req.path === '/api' || req.path.startsWith('/api/')) res.set('Cache-Control', 'no-store');
       next();
     },
   ];
