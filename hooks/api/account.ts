@@ -50,6 +50,8 @@ export function useMe(token: string | null) {
 export const registerAccount = (body: RegisterInput) => api<SessionPayload>('/auth/register', { body, token: null });
 export const loginAccount = (body: LoginInput) => api<SessionPayload>('/auth/login', { body, token: null });
 export const logoutAccount = () => api<void>('/auth/logout', { method: 'POST' });
+/** Trades a signed-in token for a new one; the server closes the old session (hooks/auth/token-rotation.ts). */
+export const refreshSession = (token: string) => api<SessionPayload>('/auth/refresh', { method: 'POST', token });
 
 export function useUpdateProfile() {
   const qc = useQueryClient();

@@ -54,6 +54,12 @@ export class Account {
 
   @UpdateDateColumn({ name: 'updated_at', type: 'datetime' })
   updatedAt: Date;
+
+  /**
+   * Not a column: the sign-in session this copy of the account was loaded for (requireAuth sets it), so the
+   * photo and PDF links signed for this viewer name that session and stop working when it is closed.
+   */
+  sessionId?: string;
 }
 
 /** One row per signed-in device; signing out deletes it, so a stolen token dies with the session. */

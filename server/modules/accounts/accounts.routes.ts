@@ -3,7 +3,7 @@ import type { ServiceContext } from '../../lib/service-context';
 import { validateBody } from '../../lib/http/validate';
 import { requireAuth, signedIn } from '../../lib/http/auth';
 import { loginSchema, profileSchema, registerSchema } from '../../../lib/schemas/account';
-import { login, logout, register, toAccountView, updateProfile, type TokenSettings } from './accounts.service';
+import { login, logout, refreshSession, register, toAccountView, updateProfile, type TokenSettings } from './accounts.service';
 
 export function accountsRouter(ctx: ServiceContext, tokenSettings: Omit<TokenSettings, 'now'>): Router {
   const router = Router();
@@ -18,6 +18,11 @@ export function accountsRouter(ctx: ServiceContext, tokenSettings: Omit<TokenSet
 
   router.post('/auth/login', validateBody(loginSchema), async (req, res) => {
     res.json(await login(ds, req.body, tokens));
+  });
+
+  // Rotation: the app trades its token for a new one past half its life; the old session (and its links) close.
+  router.post('/auth/refresh', auth, async (req, res) => {
+    res.json(await refreshSession(ds, signedIn(req), req.sessionId!, tokens));
   });
 
   router.post('/auth/logout', auth, async (req, res) => {

@@ -1,7 +1,7 @@
 import crypto from 'node:crypto';
 import bcrypt from 'bcryptjs';
 import jwt from 'jsonwebtoken';
-import type { DataSource } from 'typeorm';
+import type { DataSource, EntityManager } from 'typeorm';
 import { AppError } from '../../lib/errors/app-error';
 import { accountRoles } from '../../lib/http/auth';
 import { Account, Session } from './account.entity';
@@ -46,19 +46,34 @@ function ttlMs(ttl: string): number {
   return n * { s: 1_000, m: 60_000, h: 3_600_000, d: 86_400_000 }[unit as 's' | 'm' | 'h' | 'd'];
 }
 
-async function openSession(ds: DataSource, account: Account, tokens: TokenSettings) {
-  const session = ds.getRepository(Session).create({
-    id: crypto.randomUUID(),
-    accountId: account.id,
-    expiresAt: new Date((tokens.now ?? Date.now)() + ttlMs(tokens.ttl)),
-  });
-  await inTransaction(ds, (tx) => tx.getRepository(Session).save(session));
-  const token = jwt.sign({ sid: session.id, iat: Math.floor((tokens.now ?? Date.now)() / 1000) }, tokens.secret, {
+/** A new session row and its signed token (the token's `exp` and the row's `expiresAt` are the same instant). */
+async function newSession(tx: EntityManager, account: Account, tokens: TokenSettings) {
+  const now = (tokens.now ?? Date.now)();
+  const session = tx.getRepository(Session).create({ id: crypto.randomUUID(), accountId: account.id, expiresAt: new Date(now + ttlMs(tokens.ttl)) });
+  await tx.getRepository(Session).insert(session);
+  const token = jwt.sign({ sid: session.id, iat: Math.floor(now / 1000) }, tokens.secret, {
     subject: account.id,
     algorithm: 'HS256',
     expiresIn: Math.floor(ttlMs(tokens.ttl) / 1000),
   });
   return { token, user: toAccountView(account) };
+}
+
+async function openSession(ds: DataSource, account: Account, tokens: TokenSettings) {
+  return inTransaction(ds, (tx) => newSession(tx, account, tokens));
+}
+
+/**
+ * Token rotation: the signed-in session is closed and a new one opened, in one transaction. The close is
+ * conditional (the row must still be there), so a token refreshes once: a second refresh with it, or a copy
+ * of it replayed by someone else, finds no session and gets 401. Links signed under the old session close too.
+ */
+export async function refreshSession(ds: DataSource, account: Account, sessionId: string, tokens: TokenSettings) {
+  return inTransaction(ds, async (tx) => {
+    const closed = await tx.getRepository(Session).delete({ id: sessionId, accountId: account.id });
+    if (closed.affected !== 1) throw AppError.unauthenticated('You have been signed out. Sign in again.');
+    return newSession(tx, account, tokens);
+  });
 }
 
 /** Creates an account with the sign-up roles only; `admin` comes from the seed or scripts/make-admin. */

@@ -54,7 +54,7 @@ export async function addPhoto(ctx: ServiceContext, caller: Account, blockId: st
     });
     return {
       id: photo.id,
-      url: photoUrl(blockId, photo.id, signPhotoAccess(ctx.tokenSecret, { photoId: photo.id, blockId, viewerId: caller.id })),
+      url: photoUrl(blockId, photo.id, signPhotoAccess(ctx.tokenSecret, { photoId: photo.id, blockId, viewer: caller })),
       mimeType: photo.mimeType,
       sizeBytes: photo.sizeBytes,
       createdAt: photo.createdAt.toISOString(),
