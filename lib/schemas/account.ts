@@ -7,6 +7,28 @@ import { rejectUnknown } from './reject-unknown';
 // `validate()` middleware. Numbers are strict so a string "12" is refused instead of silently coerced.
 
 export const PASSWORD_MIN_LENGTH = 10;
+/** bcrypt reads only the first 72 bytes of a password and silently drops the rest, so a longer one is refused. */
+export const PASSWORD_MAX_BYTES = 72;
+export const PASSWORD_TOO_LONG = `Password must be at most ${PASSWORD_MAX_BYTES} bytes: ${PASSWORD_MAX_BYTES} plain letters, fewer with accents or emoji`;
+
+/** Length of `text` in UTF-8 bytes, as bcrypt sees it (a lone surrogate counts as U+FFFD, 3 bytes). */
+export function utf8Length(text: string): number {
+  let bytes = 0;
+  for (const ch of text) {
+    const cp = ch.codePointAt(0)!;
+    bytes += cp < 0x80 ? 1 : cp < 0x800 ? 2 : cp < 0x10000 ? 3 : 4;
+  }
+  return bytes;
+}
+
+/** A new password (sign-up, reset): long enough to resist guessing, short enough that bcrypt reads all of it. */
+export const newPassword = () =>
+  yup
+    .string()
+    .strict()
+    .min(PASSWORD_MIN_LENGTH, `Password must be at least ${PASSWORD_MIN_LENGTH} characters`)
+    .test('bcrypt-bytes', PASSWORD_TOO_LONG, (v) => v == null || utf8Length(v) <= PASSWORD_MAX_BYTES)
+    .required('Password is required');
 
 // The address goes into a To header: it must be one line whatever yup's email pattern allows.
 const email = oneLine(
@@ -28,12 +50,7 @@ const personName = () =>
 export const registerSchema = rejectUnknown(
   yup.object({
     email,
-    password: yup
-      .string()
-      .strict()
-      .min(PASSWORD_MIN_LENGTH, `Password must be at least ${PASSWORD_MIN_LENGTH} characters`)
-      .max(200, 'Password is too long')
-      .required('Password is required'),
+    password: newPassword(),
     name: personName().required('Name is required'),
     roles: yup
       .array(
