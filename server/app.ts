@@ -88,6 +88,7 @@ export function createApp(deps: AppDeps): Express {
   // After the parser: these count per email as well as per address.
   api.post('/auth/login', limits.signIn);
   api.post('/auth/register', limits.signUp);
+  api.post(['/auth/password-reset', '/auth/password-reset/confirm'], limits.passwordReset);
   api.get('/health', async (_req, res) => {
     await deps.dataSource.query('SELECT 1');
     res.json({ ok: true, service: 'fieldfold' });

@@ -77,6 +77,36 @@ export const loginSchema = rejectUnknown(
 
 export type LoginInput = yup.InferType<typeof loginSchema>;
 
+// ——— password reset by mail (POST /api/auth/password-reset, …/confirm) ———
+
+/** How long a mailed reset link works. */
+export const PASSWORD_RESET_TTL_MS = 30 * 60_000;
+
+export const passwordResetRequestSchema = rejectUnknown(
+  yup.object({
+    email: oneLine(
+      yup.string().strict().trim('Email must not start or end with spaces').email('Email must be a valid address, like name@example.com').max(254, 'Email is too long').required('Email is required'),
+      'Email',
+    ),
+  }),
+);
+
+export type PasswordResetRequest = yup.InferType<typeof passwordResetRequestSchema>;
+
+export const passwordResetConfirmSchema = rejectUnknown(
+  yup.object({
+    // 32 random bytes, base64url (43 characters), as the mailed link carries it.
+    token: yup
+      .string()
+      .strict()
+      .matches(/^[A-Za-z0-9_-]{43}$/, 'This reset link is not complete: open it from the mail again, or ask for a new one')
+      .required('This page needs the link from the mail: open it from the mail again, or ask for a new one'),
+    password: newPassword(),
+  }),
+);
+
+export type PasswordResetConfirm = yup.InferType<typeof passwordResetConfirmSchema>;
+
 export const FLOCK_SPECIES = ['sheep', 'goats', 'mixed'] as const;
 export const FLOCK_CLASSES = ['dry ewes', 'ewes with lambs', 'weaned lambs', 'wethers', 'does', 'does with kids', 'mixed'] as const;
 

@@ -115,7 +115,11 @@ export class OutboxSender implements MailOutbox {
         await this.failed(row, err);
         continue;
       }
-      await inTransaction(this.ds, (tx) => tx.update(OutboxMessage, { id: row.id }, { status: 'sent', sentAt: this.now(), claimedUntil: null, lastError: null }));
+      // The body goes once it is sent: the outbox is a queue, not an archive, and some bodies carry a secret
+      // (a password-reset link) that must not outlive its sending in the database. To, subject and time stay.
+      await inTransaction(this.ds, (tx) =>
+        tx.update(OutboxMessage, { id: row.id }, { status: 'sent', sentAt: this.now(), claimedUntil: null, lastError: null, text: '', html: null }),
+      );
       sent += 1;
     }
     return sent;

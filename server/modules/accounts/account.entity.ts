@@ -77,3 +77,29 @@ export class Session {
   @Column('datetime', { name: 'expires_at' })
   expiresAt: Date;
 }
+
+const epochMs = { to: (v: number) => v, from: (v: string | number) => Number(v) };
+const epochMsOrNull = { to: (v: number | null) => v, from: (v: string | number | null) => (v == null ? null : Number(v)) };
+
+/** A mailed password-reset link: the SHA-256 of its token, never the token; used once, before it expires. */
+@Entity('password_resets')
+export class PasswordReset {
+  @PrimaryColumn('varchar', { length: 36 })
+  id: string;
+
+  @Column('varchar', { name: 'account_id', length: 36 })
+  accountId: string;
+
+  /** Hex SHA-256 of the token in the link. */
+  @Column('varchar', { name: 'token_hash', length: 64, unique: true })
+  tokenHash: string;
+
+  @Column('bigint', { name: 'expires_at', transformer: epochMs })
+  expiresAt: number;
+
+  @Column('bigint', { name: 'used_at', nullable: true, transformer: epochMsOrNull })
+  usedAt: number | null;
+
+  @Column('bigint', { name: 'created_at', transformer: epochMs })
+  createdAt: number;
+}

@@ -2,7 +2,8 @@ import { Router } from 'express';
 import type { ServiceContext } from '../../lib/service-context';
 import { validateBody } from '../../lib/http/validate';
 import { requireAuth, signedIn } from '../../lib/http/auth';
-import { loginSchema, profileSchema, registerSchema } from '../../../lib/schemas/account';
+import { loginSchema, passwordResetConfirmSchema, passwordResetRequestSchema, profileSchema, registerSchema } from '../../../lib/schemas/account';
+import { confirmPasswordReset, requestPasswordReset } from './password-reset.service';
 import { login, logout, refreshSession, register, toAccountView, updateProfile, type TokenSettings } from './accounts.service';
 
 export function accountsRouter(ctx: ServiceContext, tokenSettings: Omit<TokenSettings, 'now'>): Router {
@@ -27,6 +28,18 @@ export function accountsRouter(ctx: ServiceContext, tokenSettings: Omit<TokenSet
 
   router.post('/auth/logout', auth, async (req, res) => {
     await logout(ds, req.sessionId!);
+    res.status(204).end();
+  });
+
+  // The same 202 and words whether or not the email has an account, sent before any lookup so the time to
+  // answer says nothing either; the mail (if any) is queued after.
+  router.post('/auth/password-reset', validateBody(passwordResetRequestSchema), async (req, res) => {
+    res.status(202).json({ message: 'If an account uses this email, a link to set a new password is on its way. It works for 30 minutes.' });
+    await requestPasswordReset(ctx, req.body).catch((err: unknown) => ctx.log(`[error] password reset request not queued: ${err instanceof Error ? err.message : String(err)}`));
+  });
+
+  router.post('/auth/password-reset/confirm', validateBody(passwordResetConfirmSchema), async (req, res) => {
+    await confirmPasswordReset(ctx, req.body);
     res.status(204).end();
   });
 
