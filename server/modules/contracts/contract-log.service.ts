@@ -5,7 +5,8 @@ import { check } from '../../lib/http/validate';
 import type { LinkViewer } from '../../lib/http/auth';
 import { inTransaction } from '../../lib/db/transaction';
 import { isUniqueViolation } from '../../lib/db/unique-violation';
-import { IMAGE_EXTENSIONS, sniffImageType } from '../../lib/storage/image-type';
+import { IMAGE_EXTENSIONS } from '../../lib/storage/image-type';
+import { reencodePhoto } from '../../lib/storage/reencode-photo';
 import type { ServiceContext } from '../../lib/service-context';
 import { Account } from '../accounts/account.entity';
 import { signPhotoAccess } from '../blocks/photo-access';
@@ -369,16 +370,14 @@ export async function assertCanAddLogPhoto(ctx: ServiceContext, caller: Account,
 
 export async function addLogPhoto(ctx: ServiceContext, caller: Account, contractId: string, entryId: string, file: { buffer: Buffer } | undefined): Promise<LogPhotoView> {
   if (!file) throw AppError.badRequest('Choose a photo to upload', { photo: 'Choose a photo to upload (form field "photo")' });
-  const type = sniffImageType(file.buffer);
-  if (!type) {
-    throw new AppError(415, 'unsupported_type', 'Photos must be JPEG, PNG or WebP images', { photo: 'This file is not a JPEG, PNG or WebP image (checked by its content, not its name)' });
-  }
-  const fileName = await ctx.photos.save(file.buffer, IMAGE_EXTENSIONS[type]);
+  // Stored as sharp writes it anew: upright, no EXIF/GPS, within 2048 px (server/lib/storage/reencode-photo.ts).
+  const { bytes, type } = await reencodePhoto(file.buffer, 'photo');
+  const fileName = await ctx.photos.save(bytes, IMAGE_EXTENSIONS[type]);
   try {
     const photo = await inTransaction(ctx.ds, async (tx) => {
       // Checked again inside the queue: two uploads in flight must not make one too many.
       await entryForPhoto(tx, caller, contractId, entryId);
-      const row = tx.create(LogPhoto, { id: crypto.randomUUID(), entryId, contractId, fileName, mimeType: type, sizeBytes: file.buffer.length, createdAt: new Date(ctx.now()) });
+      const row = tx.create(LogPhoto, { id: crypto.randomUUID(), entryId, contractId, fileName, mimeType: type, sizeBytes: bytes.length, createdAt: new Date(ctx.now()) });
       await tx.insert(LogPhoto, row);
       return row;
     });
