@@ -71,7 +71,7 @@ describe('Calculator limits', () => {
     expect(res.body.byDay.length).toBeGreaterThanOrEqual(MAX_SPAN_DAYS);
     // 40 head on for half the span, in 40-head stays: 40 × 200 days.
     expect(res.body.headDays).toBeCloseTo(40 * (MAX_SPAN_DAYS / 2), 4);
-    // About 70 ms on an idle 2-core machine; the budget leaves room for a busy one.
+    // Measured 85–300 ms on this 2-core machine while other work ran (mostly yup checking 1 000 moves); the budget allows for that.
     expect(ms).toBeLessThan(400);
   });
 
