@@ -11,6 +11,8 @@ import { SmtpMail } from './lib/mail/smtp-mail';
 import { createPayments } from './lib/payments';
 import { InvoiceRecovery } from './modules/invoices/invoice-sync';
 import { registerRunning, runningProcesses } from './lib/running-servers';
+import { DatabaseRateLimitStore } from './lib/http/rate-limit-store';
+import { scaledLimits } from './lib/http/rate-limit';
 
 // config → database (migrations) → demo seed (once) → listen → graceful shutdown.
 async function main() {
@@ -40,11 +42,18 @@ async function main() {
     tokens: { secret: config.tokenSecret, ttl: config.tokenTtl },
     webDir: config.webDir,
     corsOrigin: config.corsOrigin,
+    trustProxy: config.trustProxy,
     uploadsDir: path.join(config.dataDir, 'uploads'),
     documentsDir: path.join(config.dataDir, 'documents'),
     outbox,
     publicUrl: config.publicUrl,
     payments,
+    // Several processes (PostgreSQL, or SERVER_PROCESSES > 1 on one SQLite file) count every limit in the shared
+    // database, so a guesser gets no more tries by landing on another process; one process counts in memory.
+    rateLimits: {
+      limits: scaledLimits(config.rateLimitMultiplier),
+      store: config.databaseUrl !== null || Number(process.env.SERVER_PROCESSES ?? 1) > 1 ? (name) => new DatabaseRateLimitStore(dataSource, { prefix: `${name}:` }) : undefined,
+    },
   };
   const app = createApp(deps);
   // Invoices still being issued (the payments API was down, or the process stopped between two steps) go on.

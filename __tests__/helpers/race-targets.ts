@@ -13,7 +13,7 @@ import { OutboxSender, pendingMail } from '../../server/lib/mail/outbox';
 import { createPayments } from '../../server/lib/payments';
 import type { Live } from './live-flow';
 import { startServerProcess, type ServerProcess } from './server-process';
-import { TEST_NOW, TEST_TOKENS } from './test-app';
+import { TEST_NOW, TEST_TOKENS, UNREACHED_LIMITS } from './test-app';
 
 // The servers a race test fires at: one or more, all on ONE database, so a once-only effect must hold across
 // them, not only inside one process. Chosen by RACE_TARGETS:
@@ -101,7 +101,7 @@ async function inProcessTargets(size = 2): Promise<RaceTargets> {
   // One sender per app, as each process has its own: the outbox's lease must keep them from sending a row twice.
   const senders = Array.from({ length: size }, () => new OutboxSender(db, mail, now, () => {}));
   const apps = senders.map((outbox) => {
-    const deps: AppDeps = { dataSource: db, tokens: TEST_TOKENS, log: () => {}, uploadsDir, documentsDir, outbox, publicUrl: 'http://fieldfold.test', now, payments };
+    const deps: AppDeps = { dataSource: db, tokens: TEST_TOKENS, log: () => {}, uploadsDir, documentsDir, outbox, publicUrl: 'http://fieldfold.test', now, payments, rateLimits: { limits: UNREACHED_LIMITS } };
     return createApp(deps);
   });
   const api = (i = 0) => request(apps[i % size]);

@@ -21,18 +21,22 @@ export function listRoutes(app: Express): string[] {
 function walk(stack: RouterLayer[], prefix: string, out: Set<string>): void {
   for (const layer of stack) {
     if (layer.route) {
-      const path = join(prefix, pathOf(layer.route.path));
-      for (const [method, on] of Object.entries(layer.route.methods)) if (on && method !== '_all') out.add(`${method.toUpperCase()} ${path}`);
+      // A list of paths (a limiter put in front of several endpoints, server/app.ts) names each of them.
+      for (const p of pathsOf(layer.route.path)) {
+        const path = join(prefix, p);
+        for (const [method, on] of Object.entries(layer.route.methods)) if (on && method !== '_all') out.add(`${method.toUpperCase()} ${path}`);
+      }
     } else if (Array.isArray(layer.handle?.stack)) {
-      walk(layer.handle.stack, join(prefix, pathOf(layer.rawPath)), out);
+      for (const p of pathsOf(layer.rawPath)) walk(layer.handle.stack, join(prefix, p), out);
     }
   }
 }
 
-function pathOf(raw: unknown): string {
-  // A regexp or a list of paths could not be named in a table row; fail loudly so the helper learns them.
+function pathsOf(raw: unknown): string[] {
+  if (Array.isArray(raw)) return raw.flatMap(pathsOf);
+  // A regexp could not be named in a table row; fail loudly so the helper learns it.
   if (typeof raw !== 'string') throw new Error(`listRoutes: cannot name a route or mount path of type ${Object.prototype.toString.call(raw)}`);
-  return raw;
+  return [raw];
 }
 
 function join(prefix: string, path: string): string {

@@ -61,6 +61,8 @@ export async function startServerProcess(opts: { dataDir: string; env?: Record<s
     SEED_DEMO: 'false',
     NODE_ENV: 'test',
     TOKEN_SECRET: PROCESS_TOKEN_SECRET,
+    // Thousands of requests from 127.0.0.1 in seconds: limits no test reaches (the limits' own tests use createApp).
+    RATE_LIMIT_MULTIPLIER: '100000',
     // Nothing listens here unless a test starts the payments fake and says where it is.
     PAYMENTS_API_URL: 'http://127.0.0.1:9',
     ...opts.env,

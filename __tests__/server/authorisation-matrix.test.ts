@@ -105,6 +105,24 @@ const ROWS: Row[] = [
       return { path: '/api/auth/logout', headers: { Authorization: `Bearer ${login.body.token}` } };
     },
   },
+  {
+    route: 'POST /api/auth/refresh',
+    case: 'a fresh session of the actor (refresh closes the one it is sent with)',
+    expect: s(401, 200, 200, 200, 200, 200),
+    request: async (actor) => {
+      if (actor === 'out') return { path: '/api/auth/refresh' };
+      const login = await w.api().post('/api/auth/login').send({ email: w.person(actor).email, password: PASSWORD });
+      return { path: '/api/auth/refresh', headers: { Authorization: `Bearer ${login.body.token}` } };
+    },
+  },
+  // The same answer for everyone and for any address, so it tells nobody which accounts exist.
+  { route: 'POST /api/auth/password-reset', expect: everyone(202), request: () => ({ path: '/api/auth/password-reset', body: { email: w.person('owner').email } }) },
+  {
+    route: 'POST /api/auth/password-reset/confirm',
+    case: 'a token no reset mail carried',
+    expect: everyone(400),
+    request: () => ({ path: '/api/auth/password-reset/confirm', body: { token: 'f'.repeat(64), password: 'a new long password' } }),
+  },
   { route: 'GET /api/me', expect: s(401, 200, 200, 200, 200, 200), request: () => ({ path: '/api/me' }) },
   { route: 'PATCH /api/me', expect: s(401, 200, 200, 200, 200, 200), request: () => ({ path: '/api/me', body: { phone: '+1 530 555 0142' } }) },
 

@@ -8,6 +8,7 @@ import { bidBody, blockBody } from '../helpers/market';
 import { listRoutes } from '../helpers/routes';
 import { LOG_NOW, PASSWORD, trustWorld, type Actor, type TrustWorld } from '../helpers/trust-world';
 import { Invoice } from '../../server/modules/invoices/invoice.entity';
+import { MAX_SAMPLES } from '../../lib/schemas/calc';
 
 // Hostile input, as properties (fast-check): every route that reads a body or a query gets wrong types, missing
 // and extra fields, huge strings and arrays, NaN/Infinity/-0/huge numbers, impossible dates, control and bidi
@@ -53,6 +54,13 @@ const TARGETS: Target[] = [
     setup: async () => ({ path: '/api/auth/register', body: { email: 'hostile-new@trust.example', password: PASSWORD, name: 'Nell Newcomer', roles: ['grower', 'grazier'] } }),
   },
   { route: 'POST /api/auth/login', who: 'out', input: 'json', setup: async () => ({ path: '/api/auth/login', body: { email: w.person('rival').email, password: PASSWORD } }) },
+  { route: 'POST /api/auth/password-reset', who: 'out', input: 'json', setup: async () => ({ path: '/api/auth/password-reset', body: { email: w.person('rival').email } }) },
+  {
+    route: 'POST /api/auth/password-reset/confirm',
+    who: 'out',
+    input: 'json',
+    setup: async () => ({ path: '/api/auth/password-reset/confirm', body: { token: 'f'.repeat(64), password: 'a new long password' } }),
+  },
   {
     route: 'PATCH /api/me',
     who: 'admin',
@@ -239,6 +247,7 @@ const TARGETS: Target[] = [
 const NO_INPUT: Record<string, string> = {
   'GET /api/health': 'nothing to read',
   'POST /api/auth/logout': 'the session comes from the token',
+  'POST /api/auth/refresh': 'the session comes from the token',
   'GET /api/me': 'the account comes from the token',
   'GET /api/blocks/:id': 'the path only',
   'POST /api/blocks/:id/publish': 'the path only',
@@ -462,7 +471,7 @@ describe('Hostile input: the cases the properties found', () => {
     const keys = Array.from({ length: 10_000 }, (_, i) => `"k${i}":0`).join(',');
     for (const [path, text, field, message] of [
       ['/api/auth/register', `{"email":"a@trust.example","password":"${PASSWORD}","name":"Nell","roles":[${many}]}`, 'roles', 'Choose grower, grazier or both'],
-      ['/api/calc/forage', `{"frameAreaM2":0.25,"samples":[${many}]}`, 'samples', 'At most 1000 samples'],
+      ['/api/calc/forage', `{"frameAreaM2":0.25,"samples":[${many}]}`, 'samples', `At most ${MAX_SAMPLES} samples`],
       ['/api/calc/charge', `{${charge},"feesCents":[${many}]}`, 'feesCents', 'At most 20 fees'],
       ['/api/calc/capacity', `{${keys}}`, '_', 'At most 100 fields'],
     ]) {

@@ -46,6 +46,23 @@ const envSchema = yup.object({
   SEED_DEMO: yup.string().oneOf(['true', 'false'], 'SEED_DEMO must be true or false').default('true'),
   NODE_ENV: yup.string().default('development'),
   CORS_ORIGIN: yup.string().url('CORS_ORIGIN must be an origin like http://localhost:8081'),
+  // Which proxies' X-Forwarded-For to believe for the client address the rate limits count by: a number of hops,
+  // or addresses/subnets/names Express knows (loopback, uniquelocal). Never "true": anyone could then pick an address.
+  TRUST_PROXY: yup
+    .string()
+    .matches(/^(\d{1,2}|[0-9A-Za-z.:/]+(\s*,\s*[0-9A-Za-z.:/]+)*)$/, 'TRUST_PROXY must be a hop count like 1, or addresses like loopback, 10.0.0.0/8')
+    .test('not-true', 'TRUST_PROXY must name the proxies (or a hop count), not trust every sender', (v) => v === undefined || !/^(true|false)$/i.test(v))
+    .default('loopback'),
+  // Every request limit (server/lib/http/rate-limit.ts) times this: an operator whose users share one address (a
+  // co-op office behind one NAT) raises them; the test suites' real server processes send thousands of requests
+  // from 127.0.0.1 and set it high. Never below 1: the limits cannot be lowered to nothing or turned off here.
+  RATE_LIMIT_MULTIPLIER: yup
+    .number()
+    .typeError('RATE_LIMIT_MULTIPLIER must be a whole number from 1')
+    .integer('RATE_LIMIT_MULTIPLIER must be a whole number from 1')
+    .min(1, 'RATE_LIMIT_MULTIPLIER must be a whole number from 1')
+    .max(1_000_000, 'RATE_LIMIT_MULTIPLIER must be at most 1000000')
+    .default(1),
   // Mail goes over SMTP when SMTP_PORT is set (npm start sets it to the local sink); otherwise it stays in memory.
   SMTP_HOST: yup.string().matches(/^[A-Za-z0-9.:-]+$/, 'SMTP_HOST must be a host name or IP address').default('127.0.0.1'),
   SMTP_PORT: port('SMTP_PORT'),
@@ -94,6 +111,10 @@ export interface Config {
   production: boolean;
   /** Only the Expo dev server needs it (npm run dev); production serves app and API from one origin. */
   corsOrigin: string | null;
+  /** Express's `trust proxy`: a hop count or the proxies' addresses (default loopback). */
+  trustProxy: string | number;
+  /** Every request limit is multiplied by this (RATE_LIMIT_MULTIPLIER, 1 by default). */
+  rateLimitMultiplier: number;
   /** Where mail goes over SMTP; null keeps it in memory (tests, `npm run dev`). */
   smtp: { host: string; port: number } | null;
   mailFrom: { name: string; address: string };
@@ -166,6 +187,8 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, root = process.
     seedDemo: parsed.SEED_DEMO === 'true',
     production: parsed.NODE_ENV === 'production',
     corsOrigin: parsed.CORS_ORIGIN ?? null,
+    trustProxy: /^\d+$/.test(parsed.TRUST_PROXY) ? Number(parsed.TRUST_PROXY) : parsed.TRUST_PROXY,
+    rateLimitMultiplier: parsed.RATE_LIMIT_MULTIPLIER,
     smtp: parsed.SMTP_PORT === undefined ? null : { host: parsed.SMTP_HOST, port: parsed.SMTP_PORT },
     mailFrom: parseFrom(parsed.MAIL_FROM)!,
     mailUiPort: parsed.MAIL_UI_PORT ?? null,

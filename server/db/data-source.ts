@@ -1,6 +1,6 @@
 import 'reflect-metadata';
 import { DataSource } from 'typeorm';
-import { Account, Session } from '../modules/accounts/account.entity';
+import { Account, PasswordReset, Session } from '../modules/accounts/account.entity';
 import { Block } from '../modules/blocks/block.entity';
 import { BlockPhoto } from '../modules/blocks/block-photo.entity';
 import { Bid } from '../modules/bids/bid.entity';
@@ -18,11 +18,12 @@ import { ContractSigningLog1765100000000 } from './migrations/1765100000000-cont
 import { Documents1765200000000 } from './migrations/1765200000000-documents';
 import { Invoices1765300000000 } from './migrations/1765300000000-invoices';
 import { MarketFigures1765400000000 } from './migrations/1765400000000-market-figures';
+import { PasswordResets1766000000000 } from './migrations/1766000000000-password-resets';
 import { PostgresFunctions1766200000000 } from './migrations/1766200000000-postgres-functions';
 import { RateLimitHits1766200000100 } from './migrations/1766200000100-rate-limit-hits';
 import { registerSqlFunctions } from './sql-functions';
 
-export const entities = [Account, Session, Block, BlockPhoto, Bid, Contract, ContractSignature, ContractAmendment, LogEntry, LogPhoto, SignOff, OutboxMessage, Document, Invoice, InvoiceCounter, PaymentEventRecord, PaymentCustomer];
+export const entities = [Account, Session, PasswordReset, Block, BlockPhoto, Bid, Contract, ContractSignature, ContractAmendment, LogEntry, LogPhoto, SignOff, OutboxMessage, Document, Invoice, InvoiceCounter, PaymentEventRecord, PaymentCustomer];
 export const migrations = [
   Accounts1764600000000,
   Blocks1764700000000,
@@ -33,6 +34,7 @@ export const migrations = [
   Documents1765200000000,
   Invoices1765300000000,
   MarketFigures1765400000000,
+  PasswordResets1766000000000,
   PostgresFunctions1766200000000,
   RateLimitHits1766200000100,
 ];

@@ -113,7 +113,11 @@ export class OutboxSender implements MailOutbox {
       }
       // Only while the lease is still ours (`claimedUntil` is the one this sender set): a sender whose send outlived
       // its lease has been overtaken by another, and its late answer must not touch that one's claim.
-      await inTransaction(this.ds, (tx) => tx.update(OutboxMessage, { id: row.id, claimedUntil: row.claimedUntil! }, { status: 'sent', sentAt: this.now(), claimedUntil: null, lastError: null }));
+      // The body goes once it is sent: the outbox is a queue, not an archive, and some bodies carry a secret
+      // (a password-reset link) that must not outlive its sending in the database. To, subject and time stay.
+      await inTransaction(this.ds, (tx) =>
+        tx.update(OutboxMessage, { id: row.id, claimedUntil: row.claimedUntil! }, { status: 'sent', sentAt: this.now(), claimedUntil: null, lastError: null, text: '', html: null }),
+      );
       sent += 1;
     }
     return sent;

@@ -55,6 +55,12 @@ export class Account {
 
   @UpdateDateColumn({ name: 'updated_at', type: Date })
   updatedAt: Date;
+
+  /**
+   * Not a column: the sign-in session this copy of the account was loaded for (requireAuth sets it), so the
+   * photo and PDF links signed for this viewer name that session and stop working when it is closed.
+   */
+  sessionId?: string;
 }
 
 /** One row per signed-in device; signing out deletes it, so a stolen token dies with the session. */
@@ -71,4 +77,30 @@ export class Session {
 
   @Column({ type: Date, name: 'expires_at' })
   expiresAt: Date;
+}
+
+const epochMs = { to: (v: number) => v, from: (v: string | number) => Number(v) };
+const epochMsOrNull = { to: (v: number | null) => v, from: (v: string | number | null) => (v == null ? null : Number(v)) };
+
+/** A mailed password-reset link: the SHA-256 of its token, never the token; used once, before it expires. */
+@Entity('password_resets')
+export class PasswordReset {
+  @PrimaryColumn('varchar', { length: 36 })
+  id: string;
+
+  @Column('varchar', { name: 'account_id', length: 36 })
+  accountId: string;
+
+  /** Hex SHA-256 of the token in the link. */
+  @Column('varchar', { name: 'token_hash', length: 64, unique: true })
+  tokenHash: string;
+
+  @Column('bigint', { name: 'expires_at', transformer: epochMs })
+  expiresAt: number;
+
+  @Column('bigint', { name: 'used_at', nullable: true, transformer: epochMsOrNull })
+  usedAt: number | null;
+
+  @Column('bigint', { name: 'created_at', transformer: epochMs })
+  createdAt: number;
 }

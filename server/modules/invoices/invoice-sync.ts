@@ -31,7 +31,7 @@ export function invoiceKeyBase(inv: Pick<Invoice, 'contractId'>): string {
 }
 
 export async function viewForMail(em: EntityManager, ctx: ServiceContext, inv: Invoice) {
-  const [view] = await invoiceViews(em, ctx, inv.grazierId, [inv]);
+  const [view] = await invoiceViews(em, ctx, { id: inv.grazierId }, [inv]);
   const people = await em.findBy(Account, [{ id: inv.growerId }, { id: inv.grazierId }]);
   const person = (id: string) => {
     const p = people.find((x) => x.id === id)!;
@@ -275,7 +275,7 @@ export class InvoiceRecovery {
 
 /** The PDF renderer's data for an invoice as it stands (sent or paid), from lib's lines and the stored figures. */
 async function pdfData(ctx: ServiceContext, inv: Invoice, version: number): Promise<InvoicePdfData> {
-  const [view] = await invoiceViews(ctx.ds.manager, ctx, inv.grazierId, [inv]);
+  const [view] = await invoiceViews(ctx.ds.manager, ctx, { id: inv.grazierId }, [inv]);
   const contract = await ctx.ds.manager.findOneByOrFail(Contract, { id: inv.contractId });
   const people = await ctx.ds.manager.findBy(Account, [{ id: inv.growerId }, { id: inv.grazierId }]);
   const party = (id: string) => {

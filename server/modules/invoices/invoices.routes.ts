@@ -29,7 +29,13 @@ export function invoicesRouter(ctx: ServiceContext): Router {
   });
 
   // A download link cannot send a bearer token, so the signed `access` link from the invoice view is accepted too.
-  const pdfViewer = bearerOrAccessLink(auth, (access, req) => verifyInvoicePdfAccess(ctx.tokenSecret, access, param(req, 'id')), 'This download link has expired or is not valid; reload the invoice');
+  const pdfViewer = bearerOrAccessLink({
+    ds: ctx.ds,
+    now: ctx.now,
+    auth,
+    verify: (access, req) => verifyInvoicePdfAccess(ctx.tokenSecret, access, param(req, 'id')),
+    invalidMessage: 'This download link has expired or is not valid; reload the invoice',
+  });
   router.get('/invoices/:id/pdf', pdfViewer, async (req, res) => {
     // The invoices policy first (404 to anyone but the two parties), then the documents module sends the file.
     const doc = await invoicePdf(ctx, res.locals.viewerId as string, param(req, 'id'));

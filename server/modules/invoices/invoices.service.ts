@@ -41,7 +41,7 @@ function alreadyInvoiced(existing: Invoice): AppError {
 }
 
 async function viewOf(ctx: ServiceContext, viewer: Account, inv: Invoice, em: EntityManager = ctx.ds.manager): Promise<InvoiceView> {
-  const [view] = await invoiceViews(em, ctx, viewer.id, [inv]);
+  const [view] = await invoiceViews(em, ctx, viewer, [inv]);
   return view;
 }
 
@@ -157,7 +157,7 @@ export async function listInvoices(ctx: ServiceContext, viewer: Account, query: 
     where: side === 'receivable' ? { grazierId: viewer.id } : { growerId: viewer.id },
     order: { dueDate: 'ASC', number: 'ASC' },
   });
-  const items = await invoiceViews(ctx.ds.manager, ctx, viewer.id, rows);
+  const items = await invoiceViews(ctx.ds.manager, ctx, viewer, rows);
   const zone = items[0]?.block.timeZone ?? 'UTC';
   return { side, items, totals: invoiceTotals(items.map((i) => ({ displayStatus: i.displayStatus, totalCents: i.totalCents, paidDay: i.receipt?.paidDay ?? null })), seasonOf(todayIn(zone, ctx.now()))) };
 }
