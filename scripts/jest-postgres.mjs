@@ -39,6 +39,9 @@ if (process.argv[1] && path.resolve(process.argv[1]) === fileURLToPath(import.me
   const args = process.argv.slice(2);
   // With files named, only they run (engine-free or not); --selectProjects takes every value after it, so it goes last.
   const jestArgs = args.length ? [...args, '--ci', '--maxWorkers=2', '--selectProjects', 'server'] : POSTGRES_PASS;
+  // Stopped by a signal (Ctrl-C, a CI timeout): exit, and postgres.mjs's exit hook stops the cluster. While jest runs
+  // (spawnSync) the handler waits until jest has ended; the default would leave the cluster running.
+  for (const [signal, code] of [['SIGINT', 130], ['SIGTERM', 143]]) process.on(signal, () => process.exit(code));
   const postgres = await startPostgres({ durable: false });
   let status = 1;
   try {
