@@ -1,4 +1,5 @@
 import { In, type EntityManager } from 'typeorm';
+import { readTogether } from '../../lib/db/reads';
 import { Account } from '../accounts/account.entity';
 import { Block } from '../blocks/block.entity';
 import { Contract } from '../contracts/contract.entity';
@@ -37,10 +38,10 @@ export async function bidViews(em: EntityManager, bids: Bid[], knownBlocks: Bloc
   const known = new Set(knownBlocks.map((b) => b.id));
   const blockIds = [...new Set(bids.map((b) => b.blockId))].filter((id) => !known.has(id));
   const grazierIds = [...new Set(bids.map((b) => b.grazierId))];
-  const [blocks, graziers, records] = await Promise.all([
-    blockIds.length ? em.findBy(Block, { id: In(blockIds) }) : Promise.resolve([]),
-    em.find(Account, { where: { id: In(grazierIds) }, select: { id: true, name: true, businessName: true } }),
-    completedContracts(em, grazierIds),
+  const [blocks, graziers, records] = await readTogether(em, [
+    () => (blockIds.length ? em.findBy(Block, { id: In(blockIds) }) : Promise.resolve([])),
+    () => em.find(Account, { where: { id: In(grazierIds) }, select: { id: true, name: true, businessName: true } }),
+    () => completedContracts(em, grazierIds),
   ]);
   const blockById = new Map([...knownBlocks, ...blocks].map((b) => [b.id, b]));
   const grazierById = new Map(graziers.map((g) => [g.id, g]));

@@ -1,5 +1,6 @@
 import { In, type EntityManager } from 'typeorm';
 import { Account } from '../accounts/account.entity';
+import { readTogether } from '../../lib/db/reads';
 import { hasRole } from '../../lib/http/auth';
 import type { ServiceContext } from '../../lib/service-context';
 import { Bid } from '../bids/bid.entity';
@@ -118,26 +119,28 @@ export async function blockViews(ctx: ServiceContext, viewer: Account, blocks: B
   const ownIds = blocks.filter((b) => isOwner(viewer, b)).map((b) => b.id);
   // Only what the views show: the owners' names, the viewer's own live bids, and live-bid counts for the owner.
   // status = 'live' is written out so SQLite can use the partial unique index on live bids.
-  const [owners, photos, myLiveBids, liveCounts] = await Promise.all([
-    em.find(Account, { where: { id: In(ownerIds) }, select: { id: true, name: true, businessName: true } }),
-    em.find(BlockPhoto, { where: { blockId: In(ids) }, order: { position: 'ASC' } }),
-    em
-      .createQueryBuilder(Bid, 'bid')
-      .select('bid.id', 'id')
-      .addSelect('bid.block_id', 'blockId')
-      .where("bid.status = 'live'")
-      .andWhere('bid.grazier_id = :viewer AND bid.block_id IN (:...ids)', { viewer: viewer.id, ids })
-      .getRawMany<{ id: string; blockId: string }>(),
-    ownIds.length === 0
-      ? Promise.resolve([])
-      : em
-          .createQueryBuilder(Bid, 'bid')
-          .select('bid.block_id', 'blockId')
-          .addSelect('COUNT(*)', 'n')
-          .where("bid.status = 'live'")
-          .andWhere('bid.block_id IN (:...ownIds)', { ownIds })
-          .groupBy('bid.block_id')
-          .getRawMany<{ blockId: string; n: number }>(),
+  const [owners, photos, myLiveBids, liveCounts] = await readTogether(em, [
+    () => em.find(Account, { where: { id: In(ownerIds) }, select: { id: true, name: true, businessName: true } }),
+    () => em.find(BlockPhoto, { where: { blockId: In(ids) }, order: { position: 'ASC' } }),
+    () =>
+      em
+        .createQueryBuilder(Bid, 'bid')
+        .select('bid.id', 'id')
+        .addSelect('bid.block_id', 'blockId')
+        .where("bid.status = 'live'")
+        .andWhere('bid.grazier_id = :viewer AND bid.block_id IN (:...ids)', { viewer: viewer.id, ids })
+        .getRawMany<{ id: string; blockId: string }>(),
+    () =>
+      ownIds.length === 0
+        ? Promise.resolve([])
+        : em
+            .createQueryBuilder(Bid, 'bid')
+            .select('bid.block_id', 'blockId')
+            .addSelect('COUNT(*)', 'n')
+            .where("bid.status = 'live'")
+            .andWhere('bid.block_id IN (:...ownIds)', { ownIds })
+            .groupBy('bid.block_id')
+            .getRawMany<{ blockId: string; n: number }>(),
   ]);
   const ownerById = new Map(owners.map((o) => [o.id, o]));
   const myLiveBidByBlock = new Map(myLiveBids.map((x) => [x.blockId, x.id]));

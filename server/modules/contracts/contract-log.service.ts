@@ -1,5 +1,6 @@
 import crypto from 'node:crypto';
 import { In, type EntityManager } from 'typeorm';
+import { readTogether } from '../../lib/db/reads';
 import { AppError } from '../../lib/errors/app-error';
 import { check } from '../../lib/http/validate';
 import type { LinkViewer } from '../../lib/http/auth';
@@ -222,9 +223,9 @@ export async function addLogEntry(ctx: ServiceContext, caller: Account, id: stri
 
 async function entryViews(ctx: ServiceContext, em: EntityManager, contract: Contract, terms: ContractTerms, entries: LogEntry[], viewer: LinkViewer): Promise<LogEntryView[]> {
   if (entries.length === 0) return [];
-  const [people, photos] = await Promise.all([
-    em.find(Account, { where: { id: In([contract.growerId, contract.grazierId]) }, select: { id: true, name: true } }),
-    em.find(LogPhoto, { where: { entryId: In(entries.map((e) => e.id)) }, order: { createdAt: 'ASC' } }),
+  const [people, photos] = await readTogether(em, [
+    () => em.find(Account, { where: { id: In([contract.growerId, contract.grazierId]) }, select: { id: true, name: true } }),
+    () => em.find(LogPhoto, { where: { entryId: In(entries.map((e) => e.id)) }, order: { createdAt: 'ASC' } }),
   ]);
   const nameOf = new Map(people.map((p) => [p.id, p.name]));
   const photosOf = new Map<string, LogPhotoView[]>();

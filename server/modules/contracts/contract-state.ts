@@ -1,5 +1,6 @@
 import crypto from 'node:crypto';
 import type { EntityManager } from 'typeorm';
+import { readTogether } from '../../lib/db/reads';
 import { AppError } from '../../lib/errors/app-error';
 import { Account } from '../accounts/account.entity';
 import { Block } from '../blocks/block.entity';
@@ -34,7 +35,7 @@ function termsParty(a: Account | null | undefined): TermsParty {
 
 /** Version 1 of the terms from the block and the winning bid, with the parties as their accounts name them now. */
 export async function awardTerms(em: EntityManager, contractId: string, block: Block, growerId: string, grazierId: string, bid: BidTermsView): Promise<ContractTerms> {
-  const [grower, grazier] = await Promise.all([em.findOneBy(Account, { id: growerId }), em.findOneBy(Account, { id: grazierId })]);
+  const [grower, grazier] = await readTogether(em, [() => em.findOneBy(Account, { id: growerId }), () => em.findOneBy(Account, { id: grazierId })]);
   return termsFromAward({
     contractId,
     grower: termsParty(grower),
@@ -117,21 +118,23 @@ export async function movesOf(em: EntityManager, contractId: string): Promise<Ar
  * with the number of moves (a few a day), not with the whole log.
  */
 export async function figuresOf(em: EntityManager, contract: Contract, terms: ContractTerms, nowMs: number): Promise<LogFiguresResult> {
-  const [moves, losses, residual] = await Promise.all([
-    movesOf(em, contract.id),
-    em
-      .createQueryBuilder(LogEntry, 'e')
-      .select('COALESCE(SUM(e.losses), 0)', 'n')
-      .where('e.contract_id = :id AND e.author = :grazier AND e.voided_at IS NULL', { id: contract.id, grazier: 'grazier' })
-      .getRawOne<{ n: number | string }>(),
-    em
-      .createQueryBuilder(LogEntry, 'e')
-      .select('e.residual_height_in', 'h')
-      .where('e.contract_id = :id AND e.residual_height_in IS NOT NULL AND e.voided_at IS NULL', { id: contract.id })
-      .orderBy('e.at_ms', 'DESC')
-      .addOrderBy('e.id', 'DESC')
-      .limit(1)
-      .getRawOne<{ h: number }>(),
+  const [moves, losses, residual] = await readTogether(em, [
+    () => movesOf(em, contract.id),
+    () =>
+      em
+        .createQueryBuilder(LogEntry, 'e')
+        .select('COALESCE(SUM(e.losses), 0)', 'n')
+        .where('e.contract_id = :id AND e.author = :grazier AND e.voided_at IS NULL', { id: contract.id, grazier: 'grazier' })
+        .getRawOne<{ n: number | string }>(),
+    () =>
+      em
+        .createQueryBuilder(LogEntry, 'e')
+        .select('e.residual_height_in', 'h')
+        .where('e.contract_id = :id AND e.residual_height_in IS NOT NULL AND e.voided_at IS NULL', { id: contract.id })
+        .orderBy('e.at_ms', 'DESC')
+        .addOrderBy('e.id', 'DESC')
+        .limit(1)
+        .getRawOne<{ h: number }>(),
   ]);
   return logFigures({
     moves: moves.map(({ at, change }) => ({ at, change })),

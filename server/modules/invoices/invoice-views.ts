@@ -1,4 +1,5 @@
 import { In, type EntityManager } from 'typeorm';
+import { readTogether } from '../../lib/db/reads';
 import { Account } from '../accounts/account.entity';
 import { Block } from '../blocks/block.entity';
 import { blockSummary, partyOf } from '../blocks/block-views';
@@ -29,9 +30,9 @@ export async function invoiceViews(em: EntityManager, ctx: ViewContext, viewer: 
   if (invoices.length === 0) return [];
   const contracts = await em.findBy(Contract, { id: In([...new Set(invoices.map((i) => i.contractId))]) });
   const contractById = new Map(contracts.map((c) => [c.id, c]));
-  const [blocks, people] = await Promise.all([
-    em.findBy(Block, { id: In([...new Set(contracts.map((c) => c.blockId))]) }),
-    em.findBy(Account, { id: In([...new Set(invoices.flatMap((i) => [i.growerId, i.grazierId]))]) }),
+  const [blocks, people] = await readTogether(em, [
+    () => em.findBy(Block, { id: In([...new Set(contracts.map((c) => c.blockId))]) }),
+    () => em.findBy(Account, { id: In([...new Set(invoices.flatMap((i) => [i.growerId, i.grazierId]))]) }),
   ]);
   const blockById = new Map(blocks.map((b) => [b.id, b]));
   // The newest stored PDF of each (documents keep every version; the view names the latest).
