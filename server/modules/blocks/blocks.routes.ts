@@ -1,14 +1,14 @@
 import { Router, type RequestHandler } from 'express';
 import multer from 'multer';
 import { AppError } from '../../lib/errors/app-error';
-import { bearerOrAccessLink, requireAuth, requireRole, signedIn } from '../../lib/http/auth';
+import { requireAuth, requireRole, signedIn } from '../../lib/http/auth';
 import { sendStoredImage } from '../../lib/http/send-image';
 import { param } from '../../lib/http/params';
 import { heavyReads } from '../../lib/http/read-lane';
 import type { ServiceContext } from '../../lib/service-context';
 import { createBlock, getBlock, listBlocks, publishBlock, updateBlock, withdrawBlock } from './blocks.service';
 import { addPhoto, assertCanAddPhoto, deletePhoto, openPhoto } from './block-photos.service';
-import { verifyPhotoAccess } from './photo-access';
+import { photoViewer } from './photo-access';
 import { MAX_PHOTO_BYTES } from '../../../lib/schemas/block';
 
 export const PHOTO_FIELD = 'photo';
@@ -67,14 +67,8 @@ export function blocksRouter(ctx: ServiceContext): Router {
   });
 
   // An <img> cannot send a bearer token, so the signed `access` link from the block view is accepted too.
-  const photoViewer = bearerOrAccessLink({
-    ds: ctx.ds,
-    now: ctx.now,
-    auth,
-    verify: (access, req) => verifyPhotoAccess(ctx.tokenSecret, access, { photoId: param(req, 'photoId'), blockId: param(req, 'id') }),
-    invalidMessage: 'This photo link has expired or is not valid; reload the block',
-  });
-  router.get('/blocks/:id/photos/:photoId', photoViewer, async (req, res, next) => {
+  const viewer = photoViewer(ctx, auth, 'block');
+  router.get('/blocks/:id/photos/:photoId', viewer, async (req, res, next) => {
     const file = await openPhoto(ctx, res.locals.viewerId as string, param(req, 'id'), param(req, 'photoId'));
     sendStoredImage(res, next, file);
   });

@@ -1,5 +1,8 @@
+import type { RequestHandler } from 'express';
 import jwt from 'jsonwebtoken';
-import type { LinkViewer } from '../../lib/http/auth';
+import { bearerOrAccessLink, type LinkViewer } from '../../lib/http/auth';
+import { param } from '../../lib/http/params';
+import type { ServiceContext } from '../../lib/service-context';
 
 // A web <img> cannot send an Authorization header, so each photo URL in a block view carries its own
 // short-lived signed token: which photo, of which block, for which viewer and which of the viewer's sign-in
@@ -41,4 +44,18 @@ export function verifyPhotoAccess(secret: string, token: string, p: { photoId: s
 /** Path of a photo under the API origin, ready for an <img src>. */
 export function photoUrl(blockId: string, photoId: string, token: string): string {
   return `/api/blocks/${encodeURIComponent(blockId)}/photos/${encodeURIComponent(photoId)}?access=${encodeURIComponent(token)}`;
+}
+
+/**
+ * For a photo route (`…/:id/…/photos/:photoId`, `:id` the block or the contract whose log holds it): the bearer
+ * token as usual, or the signed `access` link an <img> carries; `reload` names what to reload for a fresh link.
+ */
+export function photoViewer(ctx: ServiceContext, auth: RequestHandler, reload: 'block' | 'log'): RequestHandler {
+  return bearerOrAccessLink({
+    ds: ctx.ds,
+    now: ctx.now,
+    auth,
+    verify: (access, req) => verifyPhotoAccess(ctx.tokenSecret, access, { photoId: param(req, 'photoId'), blockId: param(req, 'id') }),
+    invalidMessage: `This photo link has expired or is not valid; reload the ${reload}`,
+  });
 }

@@ -1,11 +1,11 @@
 import { Router, type RequestHandler } from 'express';
 import multer from 'multer';
-import { bearerOrAccessLink, requireAuth, signedIn } from '../../lib/http/auth';
+import { requireAuth, signedIn } from '../../lib/http/auth';
 import { sendStoredImage } from '../../lib/http/send-image';
 import { param } from '../../lib/http/params';
 import type { ServiceContext } from '../../lib/service-context';
 import { PHOTO_FIELD, uploadError } from '../blocks/blocks.routes';
-import { verifyPhotoAccess } from '../blocks/photo-access';
+import { photoViewer } from '../blocks/photo-access';
 import { cancelContract, getContract, listContracts, signContract } from './contracts.service';
 import { closeAmendment, proposeAmendment } from './contract-amendments.service';
 import { addLogEntry, addLogPhoto, assertCanAddLogPhoto, listLog, openLogPhoto, voidLogEntry } from './contract-log.service';
@@ -76,14 +76,8 @@ export function contractsRouter(ctx: ServiceContext): Router {
   });
 
   // An <img> cannot send a bearer token: the signed `access` link from the log view is accepted too.
-  const photoViewer = bearerOrAccessLink({
-    ds: ctx.ds,
-    now: ctx.now,
-    auth,
-    verify: (access, req) => verifyPhotoAccess(ctx.tokenSecret, access, { photoId: param(req, 'photoId'), blockId: param(req, 'id') }),
-    invalidMessage: 'This photo link has expired or is not valid; reload the log',
-  });
-  router.get('/contracts/:id/log/:entryId/photos/:photoId', photoViewer, async (req, res, next) => {
+  const viewer = photoViewer(ctx, auth, 'log');
+  router.get('/contracts/:id/log/:entryId/photos/:photoId', viewer, async (req, res, next) => {
     const file = await openLogPhoto(ctx, res.locals.viewerId as string, param(req, 'id'), param(req, 'entryId'), param(req, 'photoId'));
     sendStoredImage(res, next, file);
   });
