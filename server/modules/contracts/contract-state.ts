@@ -35,6 +35,11 @@ function termsParty(a: Account | null | undefined): TermsParty {
 /** Version 1 of the terms from the block and the winning bid, with the parties as their accounts name them now. */
 export async function awardTerms(em: EntityManager, contractId: string, block: Block, growerId: string, grazierId: string, bid: BidTermsView): Promise<ContractTerms> {
   const [grower, grazier] = await Promise.all([em.findOneBy(Account, { id: growerId }), em.findOneBy(Account, { id: grazierId })]);
+  return termsOfAward(contractId, block, grower, grazier, bid);
+}
+
+/** awardTerms with the two accounts at hand (the bench's season seed builds a thousand contracts this way). */
+export function termsOfAward(contractId: string, block: Block, grower: Account | null, grazier: Account | null, bid: BidTermsView): ContractTerms {
   return termsFromAward({
     contractId,
     grower: termsParty(grower),

@@ -44,76 +44,82 @@ async function viewOf(ctx: ServiceContext, viewer: Account, inv: Invoice, em: En
 export async function createInvoice(ctx: ServiceContext, viewer: Account, contractId: string, body: unknown): Promise<InvoiceView> {
   const input = await check(createInvoiceSchema, body ?? {});
   const terms = input.paymentTermsDays ?? DEFAULT_PAYMENT_TERMS_DAYS;
-  const invoiceId = await inTransaction(ctx.ds, async (tx) => {
-    const contract = await tx.findOneBy(Contract, { id: contractId });
-    assertMayInvoice(viewer, contract);
-    const existing = await tx.findOneBy(Invoice, { contractId: contract.id });
-    if (existing) {
-      const label = invoiceNumberLabel(existing.numberPrefix, existing.number);
-      throw new AppError(409, 'already_invoiced', `This contract is invoiced already: invoice ${label} (${existing.id}).`, undefined, {
-        Location: `/api/invoices/${existing.id}`,
-      });
-    }
-    if (contract.status !== 'agreed') {
-      throw AppError.conflict('Invoice once both of you have agreed the head-days at sign-off.', 'not_agreed');
-    }
-    const charge = invoiceCharge({ basis: contract.basis, rate: contract.rate, agreedHeadDays: contract.agreedHeadDays, acres: contract.acres });
-    const grazier = await tx.findOneByOrFail(Account, { id: contract.grazierId });
-    const number = await nextInvoiceNumber(tx, grazier.id);
-    const issueDate = todayIn(contract.timeZone, ctx.now());
-    const id = crypto.randomUUID();
-    await tx.insert(Invoice, {
-      id,
-      contractId: contract.id,
-      grazierId: contract.grazierId,
-      growerId: contract.growerId,
-      number,
-      numberPrefix: invoicePrefix(grazier.businessName ?? grazier.name),
-      status: 'draft',
-      issueDate,
-      dueDate: addDays(issueDate, terms),
-      paymentTermsDays: terms,
-      currency: 'usd',
-      basis: contract.basis,
-      rate: contract.rate,
-      quantity: charge.quantity,
-      lines: charge.lines,
-      services: contract.services,
-      subtotalCents: charge.subtotalCents,
-      totalCents: charge.totalCents,
-      providerCustomerId: null,
-      providerInvoiceId: null,
-      providerStatus: null,
-      providerNumber: null,
-      syncAttempts: 0,
-      syncError: null,
-      syncNextAt: null,
-      payingUntil: null,
-      payAttempts: 0,
-      lastFailureCode: null,
-      lastFailureDeclineCode: null,
-      lastFailureMessage: null,
-      lastFailureAt: null,
-      paidAt: null,
-      paidDay: null,
-      paidWith: null,
-      voidedAt: null,
-      pdfShows: null,
-      createdAt: ctx.now(),
-      updatedAt: ctx.now(),
-    });
-    const moved = await tx
-      .createQueryBuilder()
-      .update(Contract)
-      .set({ status: 'invoiced' })
-      .where('id = :id AND status = :agreed', { id: contract.id, agreed: 'agreed' })
-      .execute();
-    if (moved.affected !== 1) throw AppError.conflict('The contract changed meanwhile; reload it and try again.', 'contract_changed');
-    return id;
-  });
+  const invoiceId = await inTransaction(ctx.ds, (tx) => writeInvoice(tx, ctx, viewer, contractId, terms));
   // After the commit: the payments API (idempotent, retried later if it is down), then the PDF once it is sent.
   await syncInvoice(ctx, invoiceId);
   return viewOf(ctx, viewer, await ctx.ds.manager.findOneByOrFail(Invoice, { id: invoiceId }));
+}
+
+/**
+ * createInvoice's transaction: the contract is agreed and not yet invoiced, the next number of the grazier's
+ * sequence is taken, the row is written and the contract moves to invoiced. Resolves with the invoice's id.
+ */
+export async function writeInvoice(tx: EntityManager, ctx: ServiceContext, viewer: Account, contractId: string, paymentTermsDays: number): Promise<string> {
+  const contract = await tx.findOneBy(Contract, { id: contractId });
+  assertMayInvoice(viewer, contract);
+  const existing = await tx.findOneBy(Invoice, { contractId: contract.id });
+  if (existing) {
+    const label = invoiceNumberLabel(existing.numberPrefix, existing.number);
+    throw new AppError(409, 'already_invoiced', `This contract is invoiced already: invoice ${label} (${existing.id}).`, undefined, {
+      Location: `/api/invoices/${existing.id}`,
+    });
+  }
+  if (contract.status !== 'agreed') {
+    throw AppError.conflict('Invoice once both of you have agreed the head-days at sign-off.', 'not_agreed');
+  }
+  const charge = invoiceCharge({ basis: contract.basis, rate: contract.rate, agreedHeadDays: contract.agreedHeadDays, acres: contract.acres });
+  const grazier = await tx.findOneByOrFail(Account, { id: contract.grazierId });
+  const number = await nextInvoiceNumber(tx, grazier.id);
+  const issueDate = todayIn(contract.timeZone, ctx.now());
+  const id = crypto.randomUUID();
+  await tx.insert(Invoice, {
+    id,
+    contractId: contract.id,
+    grazierId: contract.grazierId,
+    growerId: contract.growerId,
+    number,
+    numberPrefix: invoicePrefix(grazier.businessName ?? grazier.name),
+    status: 'draft',
+    issueDate,
+    dueDate: addDays(issueDate, paymentTermsDays),
+    paymentTermsDays,
+    currency: 'usd',
+    basis: contract.basis,
+    rate: contract.rate,
+    quantity: charge.quantity,
+    lines: charge.lines,
+    services: contract.services,
+    subtotalCents: charge.subtotalCents,
+    totalCents: charge.totalCents,
+    providerCustomerId: null,
+    providerInvoiceId: null,
+    providerStatus: null,
+    providerNumber: null,
+    syncAttempts: 0,
+    syncError: null,
+    syncNextAt: null,
+    payingUntil: null,
+    payAttempts: 0,
+    lastFailureCode: null,
+    lastFailureDeclineCode: null,
+    lastFailureMessage: null,
+    lastFailureAt: null,
+    paidAt: null,
+    paidDay: null,
+    paidWith: null,
+    voidedAt: null,
+    pdfShows: null,
+    createdAt: ctx.now(),
+    updatedAt: ctx.now(),
+  });
+  const moved = await tx
+    .createQueryBuilder()
+    .update(Contract)
+    .set({ status: 'invoiced' })
+    .where('id = :id AND status = :agreed', { id: contract.id, agreed: 'agreed' })
+    .execute();
+  if (moved.affected !== 1) throw AppError.conflict('The contract changed meanwhile; reload it and try again.', 'contract_changed');
+  return id;
 }
 
 /**
