@@ -3,6 +3,8 @@ import jwt from 'jsonwebtoken';
 import type { DataSource } from 'typeorm';
 import { AppError } from '../errors/app-error';
 import { Account, Session } from '../../modules/accounts/account.entity';
+import { PreparedSelect } from '../db/prepared-select';
+import { tokenKey } from './token-key';
 import type { Role } from '../../../lib/roles';
 
 export interface TokenClaims {
@@ -28,8 +30,20 @@ export function hasRole(account: Account, role: Role): boolean {
   return accountRoles(account).includes(role);
 }
 
+/** The signed-in account of a session that is still open, in one query: the session's id, account and expiry. */
+function sessionAccount(ds: DataSource): PreparedSelect<Account> {
+  return new PreparedSelect(ds, (em) =>
+    em
+      .createQueryBuilder(Account, 'a')
+      .innerJoin(Session, 's', 's.account_id = a.id')
+      .where('s.id = :sid AND s.account_id = :sub AND s.expires_at >= :now'),
+  );
+}
+
 /** 401 unless the bearer token is valid, unexpired and its session still open. */
 export function requireAuth(ds: DataSource, secret: string, now: () => number = Date.now): RequestHandler {
+  const key = tokenKey(secret);
+  const signedInAccount = sessionAccount(ds);
   return async (req, _res, next) => {
     try {
       const header = req.get('authorization') ?? '';
@@ -37,18 +51,16 @@ export function requireAuth(ds: DataSource, secret: string, now: () => number = 
       if (!match) throw AppError.unauthenticated();
       let claims: TokenClaims;
       try {
-        claims = jwt.verify(match[1], secret, { algorithms: ['HS256'], clockTimestamp: Math.floor(now() / 1000) }) as TokenClaims;
+        claims = jwt.verify(match[1], key, { algorithms: ['HS256'], clockTimestamp: Math.floor(now() / 1000) }) as TokenClaims;
       } catch {
         throw AppError.unauthenticated('Your sign-in has expired or is not valid. Sign in again.');
       }
       // Other tokens signed with the same secret (photo access links) carry no session: never a sign-in.
       if (typeof claims.sid !== 'string' || typeof claims.sub !== 'string') throw AppError.unauthenticated('Your sign-in is not valid. Sign in again.');
-      const session = await ds.getRepository(Session).findOneBy({ id: claims.sid, accountId: claims.sub });
-      if (!session || session.expiresAt.getTime() < now()) throw AppError.unauthenticated('You have been signed out. Sign in again.');
-      const account = await ds.getRepository(Account).findOneBy({ id: claims.sub });
-      if (!account) throw AppError.unauthenticated();
+      const account = await signedInAccount.one({ sid: claims.sid, sub: claims.sub, now: new Date(now()) });
+      if (!account) throw AppError.unauthenticated('You have been signed out. Sign in again.');
       req.account = account;
-      req.sessionId = session.id;
+      req.sessionId = claims.sid;
       next();
     } catch (err) {
       next(err);

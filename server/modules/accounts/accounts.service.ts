@@ -4,6 +4,7 @@ import jwt from 'jsonwebtoken';
 import type { DataSource } from 'typeorm';
 import { AppError } from '../../lib/errors/app-error';
 import { accountRoles } from '../../lib/http/auth';
+import { tokenKey } from '../../lib/http/token-key';
 import { Account, Session } from './account.entity';
 import { inTransaction } from '../../lib/db/transaction';
 import type { AccountView, LoginInput, ProfileInput, RegisterInput } from '../../../lib/schemas/account';
@@ -53,7 +54,7 @@ async function openSession(ds: DataSource, account: Account, tokens: TokenSettin
     expiresAt: new Date((tokens.now ?? Date.now)() + ttlMs(tokens.ttl)),
   });
   await inTransaction(ds, (tx) => tx.getRepository(Session).save(session));
-  const token = jwt.sign({ sid: session.id, iat: Math.floor((tokens.now ?? Date.now)() / 1000) }, tokens.secret, {
+  const token = jwt.sign({ sid: session.id, iat: Math.floor((tokens.now ?? Date.now)() / 1000) }, tokenKey(tokens.secret), {
     subject: account.id,
     algorithm: 'HS256',
     expiresIn: Math.floor(ttlMs(tokens.ttl) / 1000),

@@ -1,4 +1,5 @@
 import jwt from 'jsonwebtoken';
+import { tokenKey } from '../../lib/http/token-key';
 
 // A web <img> cannot send an Authorization header, so each photo URL in a block view carries its own
 // short-lived signed token: which photo, of which block, for which viewer, for one hour. The photo route
@@ -16,7 +17,7 @@ interface PhotoAccessClaims {
 }
 
 export function signPhotoAccess(secret: string, p: { photoId: string; blockId: string; viewerId: string }): string {
-  return jwt.sign({ typ: 'photo', pid: p.photoId, bid: p.blockId }, secret, {
+  return jwt.sign({ typ: 'photo', pid: p.photoId, bid: p.blockId }, tokenKey(secret), {
     subject: p.viewerId,
     algorithm: 'HS256',
     expiresIn: PHOTO_ACCESS_TTL_S,
@@ -26,7 +27,7 @@ export function signPhotoAccess(secret: string, p: { photoId: string; blockId: s
 /** The viewer id the token was issued to, if it is a valid, unexpired token for exactly this photo. */
 export function verifyPhotoAccess(secret: string, token: string, p: { photoId: string; blockId: string }): string | null {
   try {
-    const claims = jwt.verify(token, secret, { algorithms: ['HS256'] }) as Partial<PhotoAccessClaims>;
+    const claims = jwt.verify(token, tokenKey(secret), { algorithms: ['HS256'] }) as Partial<PhotoAccessClaims>;
     if (claims.typ !== 'photo' || claims.pid !== p.photoId || claims.bid !== p.blockId || typeof claims.sub !== 'string') return null;
     return claims.sub;
   } catch {
