@@ -18,6 +18,7 @@ import { ContractSigningLog1765100000000 } from './migrations/1765100000000-cont
 import { Documents1765200000000 } from './migrations/1765200000000-documents';
 import { Invoices1765300000000 } from './migrations/1765300000000-invoices';
 import { MarketFigures1765400000000 } from './migrations/1765400000000-market-figures';
+import { InvoiceListOrder1766300000000 } from './migrations/1766300000000-invoice-list-order';
 import { registerSqlFunctions } from './sql-functions';
 
 export const entities = [Account, Session, Block, BlockPhoto, Bid, Contract, ContractSignature, ContractAmendment, LogEntry, LogPhoto, SignOff, OutboxMessage, Document, Invoice, InvoiceCounter, PaymentEventRecord, PaymentCustomer];
@@ -31,6 +32,7 @@ export const migrations = [
   Documents1765200000000,
   Invoices1765300000000,
   MarketFigures1765400000000,
+  InvoiceListOrder1766300000000,
 ];
 
 /** `database` is a file path, or ':memory:' for tests. Migrations only; never synchronize. */

@@ -1,5 +1,7 @@
 import crypto from 'node:crypto';
-import type { EntityManager } from 'typeorm';
+import type { DataSource, EntityManager } from 'typeorm';
+import { PreparedSelect } from '../../lib/db/prepared-select';
+import { decodeCursor, encodeCursor } from '../contracts/cursor';
 import { AppError } from '../../lib/errors/app-error';
 import { inTransaction } from '../../lib/db/transaction';
 import { check } from '../../lib/http/validate';
@@ -14,15 +16,18 @@ import { invoiceViews } from './invoice-views';
 import { ensureInvoicePdf, markPaid, refreshInvoicePdf, syncInvoice } from './invoice-sync';
 import type { Document } from '../documents/documents.service';
 import { addDays, todayIn } from '../../../lib/day-keys';
-import { invoiceCharge, invoiceNumberLabel, invoicePrefix, invoiceTotals, seasonOf } from '../../../lib/invoices';
+import { displayStatus, invoiceCharge, invoiceNumberLabel, invoicePrefix, invoiceTotals, seasonOf } from '../../../lib/invoices';
 import { paymentFailureInWords } from '../../../lib/payments';
 import {
   createInvoiceSchema,
+  DEFAULT_INVOICE_PAGE,
   DEFAULT_PAYMENT_TERMS_DAYS,
   invoiceListQuerySchema,
   payInvoiceSchema,
+  type InvoiceListQuery,
   type InvoiceListView,
   type InvoiceSide,
+  type InvoiceStatus,
   type InvoiceView,
   type PayInvoiceInput,
 } from '../../../lib/schemas/invoice';
@@ -143,16 +148,94 @@ async function nextInvoiceNumber(tx: EntityManager, grazierId: string): Promise<
   throw AppError.conflict('Invoices are being numbered by another request; try again.', 'numbering_busy');
 }
 
+/** One side's invoices in list order (due date, number, id), a page at a time from a cursor, per side and shape. */
+function invoicePages(ds: DataSource) {
+  const page = (side: InvoiceSide, after: boolean) =>
+    new PreparedSelect(ds, (em) => {
+      const qb = em
+        .createQueryBuilder(Invoice, 'i')
+        .where(side === 'receivable' ? 'i.grazier_id = :me' : 'i.grower_id = :me')
+        .orderBy('i.due_date', 'ASC')
+        .addOrderBy('i.number', 'ASC')
+        .addOrderBy('i.id', 'ASC');
+      if (after) qb.andWhere('(i.due_date > :due OR (i.due_date = :due AND (i.number > :number OR (i.number = :number AND i.id > :id))))');
+      return qb;
+    }, { limit: true });
+  // Every invoice of the side in a few groups alike in what the totals need: the block's zone (for "today" and
+  // overdue), the status, the due date and the paid day (or, where none was kept, the paid instant).
+  const totals = (side: InvoiceSide) =>
+    new PreparedSelect(ds, (em) =>
+      em
+        .createQueryBuilder(Invoice, 'i')
+        .innerJoin(Contract, 'c', 'c.id = i.contract_id')
+        .select('c.time_zone', 'zone')
+        .addSelect('i.status', 'status')
+        .addSelect('i.due_date', 'due')
+        .addSelect('CASE WHEN i.paid_at IS NULL THEN NULL ELSE i.paid_day END', 'paidDay')
+        .addSelect('CASE WHEN i.paid_day IS NULL THEN i.paid_at END', 'paidAt')
+        .addSelect('SUM(i.total_cents)', 'cents')
+        .addSelect('COUNT(*)', 'n')
+        .where(side === 'receivable' ? 'i.grazier_id = :me' : 'i.grower_id = :me')
+        .groupBy('c.time_zone')
+        .addGroupBy('i.status')
+        .addGroupBy('i.due_date')
+        .addGroupBy('CASE WHEN i.paid_at IS NULL THEN NULL ELSE i.paid_day END')
+        .addGroupBy('CASE WHEN i.paid_day IS NULL THEN i.paid_at END'),
+    );
+  return {
+    first: { receivable: page('receivable', false), payable: page('payable', false) },
+    after: { receivable: page('receivable', true), payable: page('payable', true) },
+    totals: { receivable: totals('receivable'), payable: totals('payable') },
+  };
+}
+const pagesOf = new WeakMap<DataSource, ReturnType<typeof invoicePages>>();
+
+interface TotalsRow {
+  zone: string;
+  status: InvoiceStatus;
+  due: string;
+  paidDay: string | null;
+  paidAt: number | string | null;
+  cents: number | string;
+  n: number | string;
+}
+
+/**
+ * One side's invoices (receivable for a grazier, payable for a grower, unless `side` says), due first, a page at a
+ * time, with the totals and the count over the whole side. The page is cut in SQL by keyset; the totals are one
+ * grouped query, so the work per request is bounded by the page and the number of distinct due dates.
+ */
 export async function listInvoices(ctx: ServiceContext, viewer: Account, query: unknown): Promise<InvoiceListView> {
-  const q = await check(invoiceListQuerySchema, query ?? {});
+  const q = (await check(invoiceListQuerySchema, query ?? {})) as InvoiceListQuery;
   const side: InvoiceSide = q.side ?? (hasRole(viewer, 'grazier') ? 'receivable' : 'payable');
-  const rows = await ctx.ds.manager.find(Invoice, {
-    where: side === 'receivable' ? { grazierId: viewer.id } : { growerId: viewer.id },
-    order: { dueDate: 'ASC', number: 'ASC' },
+  const limit = q.limit ?? DEFAULT_INVOICE_PAGE;
+  const prepared = pagesOf.get(ctx.ds) ?? pagesOf.set(ctx.ds, invoicePages(ctx.ds)).get(ctx.ds)!;
+  const take = { me: viewer.id, limit: limit + 1 };
+  let rows: Invoice[];
+  if (q.cursor) {
+    const [due, number, id] = decodeCursor(q.cursor, (p): p is [string, number, string] => p.length === 3 && typeof p[0] === 'string' && Number.isSafeInteger(p[1]) && typeof p[2] === 'string');
+    rows = await prepared.after[side].many({ ...take, due, number, id });
+  } else rows = await prepared.first[side].many(take);
+  const page = rows.slice(0, limit);
+  const last = page.at(-1);
+  const [items, groups] = await Promise.all([invoiceViews(ctx.ds.manager, ctx, viewer.id, page), prepared.totals[side].raw<TotalsRow>({ me: viewer.id })]);
+  const now = ctx.now();
+  const lines = groups.map((g) => {
+    const status = g.status;
+    const today = todayIn(g.zone, now);
+    const paidDay = status === 'paid' && (g.paidDay !== null || g.paidAt !== null) ? (g.paidDay ?? todayIn(g.zone, Number(g.paidAt))) : null;
+    return { displayStatus: displayStatus(status, g.due, today), totalCents: Number(g.cents), paidDay, count: Number(g.n) };
   });
-  const items = await invoiceViews(ctx.ds.manager, ctx, viewer.id, rows);
-  const zone = items[0]?.block.timeZone ?? 'UTC';
-  return { side, items, totals: invoiceTotals(items.map((i) => ({ displayStatus: i.displayStatus, totalCents: i.totalCents, paidDay: i.receipt?.paidDay ?? null })), seasonOf(todayIn(zone, ctx.now()))) };
+  // "This season" on the calendar of the first invoice in list order.
+  const first = q.cursor ? (await prepared.first[side].many({ me: viewer.id, limit: 1 }))[0] : page[0];
+  const zone = first ? ((await ctx.ds.manager.findOne(Contract, { where: { id: first.contractId }, select: { id: true, timeZone: true } }))?.timeZone ?? 'UTC') : 'UTC';
+  return {
+    side,
+    items,
+    totals: invoiceTotals(lines, seasonOf(todayIn(zone, now))),
+    total: lines.reduce((n, l) => n + l.count, 0),
+    nextCursor: rows.length > limit && last ? encodeCursor([last.dueDate, last.number, last.id]) : null,
+  };
 }
 
 export async function getInvoice(ctx: ServiceContext, viewer: Account, id: string): Promise<InvoiceView> {
