@@ -31,19 +31,16 @@ export function hasRole(account: Account, role: Role): boolean {
 }
 
 /** The signed-in account of a session that is still open, in one query: the session's id, account and expiry. */
-function sessionAccount(ds: DataSource): PreparedSelect<Account> {
-  return new PreparedSelect(ds, (em) =>
-    em
-      .createQueryBuilder(Account, 'a')
-      .innerJoin(Session, 's', 's.account_id = a.id')
-      .where('s.id = :sid AND s.account_id = :sub AND s.expires_at >= :now'),
-  );
-}
+const sessionAccount = new PreparedSelect((em) =>
+  em
+    .createQueryBuilder(Account, 'a')
+    .innerJoin(Session, 's', 's.account_id = a.id')
+    .where('s.id = :sid AND s.account_id = :sub AND s.expires_at >= :now'),
+);
 
 /** 401 unless the bearer token is valid, unexpired and its session still open. */
 export function requireAuth(ds: DataSource, secret: string, now: () => number = Date.now): RequestHandler {
   const key = tokenKey(secret);
-  const signedInAccount = sessionAccount(ds);
   return async (req, _res, next) => {
     try {
       const header = req.get('authorization') ?? '';
@@ -57,7 +54,7 @@ export function requireAuth(ds: DataSource, secret: string, now: () => number = 
       }
       // Other tokens signed with the same secret (photo access links) carry no session: never a sign-in.
       if (typeof claims.sid !== 'string' || typeof claims.sub !== 'string') throw AppError.unauthenticated('Your sign-in is not valid. Sign in again.');
-      const account = await signedInAccount.one({ sid: claims.sid, sub: claims.sub, now: new Date(now()) });
+      const account = await sessionAccount.one(ds.manager, { sid: claims.sid, sub: claims.sub, now: new Date(now()) });
       if (!account) throw AppError.unauthenticated('You have been signed out. Sign in again.');
       req.account = account;
       req.sessionId = claims.sid;

@@ -1,5 +1,5 @@
 import crypto from 'node:crypto';
-import type { DataSource, EntityManager } from 'typeorm';
+import type { EntityManager } from 'typeorm';
 import { PreparedSelect } from '../../lib/db/prepared-select';
 import { decodeCursor, encodeCursor } from '../contracts/cursor';
 import { AppError } from '../../lib/errors/app-error';
@@ -148,10 +148,10 @@ async function nextInvoiceNumber(tx: EntityManager, grazierId: string): Promise<
   throw AppError.conflict('Invoices are being numbered by another request; try again.', 'numbering_busy');
 }
 
-/** One side's invoices in list order (due date, number, id), a page at a time from a cursor, per side and shape. */
-function invoicePages(ds: DataSource) {
-  const page = (side: InvoiceSide, after: boolean) =>
-    new PreparedSelect(ds, (em) => {
+/** One side's invoices in list order (due date, number, id), from the start or after a cursor. */
+function invoicePage(side: InvoiceSide, after: boolean) {
+  return new PreparedSelect(
+    (em) => {
       const qb = em
         .createQueryBuilder(Invoice, 'i')
         .where(side === 'receivable' ? 'i.grazier_id = :me' : 'i.grower_id = :me')
@@ -160,35 +160,41 @@ function invoicePages(ds: DataSource) {
         .addOrderBy('i.id', 'ASC');
       if (after) qb.andWhere('(i.due_date > :due OR (i.due_date = :due AND (i.number > :number OR (i.number = :number AND i.id > :id))))');
       return qb;
-    }, { limit: true });
-  // Every invoice of the side in a few groups alike in what the totals need: the block's zone (for "today" and
-  // overdue), the status, the due date and the paid day (or, where none was kept, the paid instant).
-  const totals = (side: InvoiceSide) =>
-    new PreparedSelect(ds, (em) =>
-      em
-        .createQueryBuilder(Invoice, 'i')
-        .innerJoin(Contract, 'c', 'c.id = i.contract_id')
-        .select('c.time_zone', 'zone')
-        .addSelect('i.status', 'status')
-        .addSelect('i.due_date', 'due')
-        .addSelect('CASE WHEN i.paid_at IS NULL THEN NULL ELSE i.paid_day END', 'paidDay')
-        .addSelect('CASE WHEN i.paid_day IS NULL THEN i.paid_at END', 'paidAt')
-        .addSelect('SUM(i.total_cents)', 'cents')
-        .addSelect('COUNT(*)', 'n')
-        .where(side === 'receivable' ? 'i.grazier_id = :me' : 'i.grower_id = :me')
-        .groupBy('c.time_zone')
-        .addGroupBy('i.status')
-        .addGroupBy('i.due_date')
-        .addGroupBy('CASE WHEN i.paid_at IS NULL THEN NULL ELSE i.paid_day END')
-        .addGroupBy('CASE WHEN i.paid_day IS NULL THEN i.paid_at END'),
-    );
-  return {
-    first: { receivable: page('receivable', false), payable: page('payable', false) },
-    after: { receivable: page('receivable', true), payable: page('payable', true) },
-    totals: { receivable: totals('receivable'), payable: totals('payable') },
-  };
+    },
+    { limit: true },
+  );
 }
-const pagesOf = new WeakMap<DataSource, ReturnType<typeof invoicePages>>();
+
+/**
+ * Every invoice of one side in a few groups alike in what the totals need: the block's zone (for "today" and
+ * overdue), the status, the due date and the paid day (or, where none was kept, the paid instant).
+ */
+function invoiceTotalsOf(side: InvoiceSide) {
+  return new PreparedSelect((em) =>
+    em
+      .createQueryBuilder(Invoice, 'i')
+      .innerJoin(Contract, 'c', 'c.id = i.contract_id')
+      .select('c.time_zone', 'zone')
+      .addSelect('i.status', 'status')
+      .addSelect('i.due_date', 'due')
+      .addSelect('CASE WHEN i.paid_at IS NULL THEN NULL ELSE i.paid_day END', 'paidDay')
+      .addSelect('CASE WHEN i.paid_day IS NULL THEN i.paid_at END', 'paidAt')
+      .addSelect('SUM(i.total_cents)', 'cents')
+      .addSelect('COUNT(*)', 'n')
+      .where(side === 'receivable' ? 'i.grazier_id = :me' : 'i.grower_id = :me')
+      .groupBy('c.time_zone')
+      .addGroupBy('i.status')
+      .addGroupBy('i.due_date')
+      .addGroupBy('CASE WHEN i.paid_at IS NULL THEN NULL ELSE i.paid_day END')
+      .addGroupBy('CASE WHEN i.paid_day IS NULL THEN i.paid_at END'),
+  );
+}
+
+const invoiceLists = {
+  first: { receivable: invoicePage('receivable', false), payable: invoicePage('payable', false) },
+  after: { receivable: invoicePage('receivable', true), payable: invoicePage('payable', true) },
+  totals: { receivable: invoiceTotalsOf('receivable'), payable: invoiceTotalsOf('payable') },
+};
 
 interface TotalsRow {
   zone: string;
@@ -209,26 +215,28 @@ export async function listInvoices(ctx: ServiceContext, viewer: Account, query: 
   const q = (await check(invoiceListQuerySchema, query ?? {})) as InvoiceListQuery;
   const side: InvoiceSide = q.side ?? (hasRole(viewer, 'grazier') ? 'receivable' : 'payable');
   const limit = q.limit ?? DEFAULT_INVOICE_PAGE;
-  const prepared = pagesOf.get(ctx.ds) ?? pagesOf.set(ctx.ds, invoicePages(ctx.ds)).get(ctx.ds)!;
+  const em = ctx.ds.manager;
   const take = { me: viewer.id, limit: limit + 1 };
   let rows: Invoice[];
   if (q.cursor) {
     const [due, number, id] = decodeCursor(q.cursor, (p): p is [string, number, string] => p.length === 3 && typeof p[0] === 'string' && Number.isSafeInteger(p[1]) && typeof p[2] === 'string');
-    rows = await prepared.after[side].many({ ...take, due, number, id });
-  } else rows = await prepared.first[side].many(take);
+    rows = await invoiceLists.after[side].many(em, { ...take, due, number, id });
+  } else rows = await invoiceLists.first[side].many(em, take);
   const page = rows.slice(0, limit);
   const last = page.at(-1);
-  const [items, groups] = await Promise.all([invoiceViews(ctx.ds.manager, ctx, viewer.id, page), prepared.totals[side].raw<TotalsRow>({ me: viewer.id })]);
+  const [items, groups] = await Promise.all([invoiceViews(em, ctx, viewer.id, page), invoiceLists.totals[side].raw<TotalsRow>(em, { me: viewer.id })]);
   const now = ctx.now();
+  const todays = new Map<string, string>();
+  const todayAt = (zone: string) => todays.get(zone) ?? todays.set(zone, todayIn(zone, now)).get(zone)!;
   const lines = groups.map((g) => {
     const status = g.status;
-    const today = todayIn(g.zone, now);
+    const today = todayAt(g.zone);
     const paidDay = status === 'paid' && (g.paidDay !== null || g.paidAt !== null) ? (g.paidDay ?? todayIn(g.zone, Number(g.paidAt))) : null;
     return { displayStatus: displayStatus(status, g.due, today), totalCents: Number(g.cents), paidDay, count: Number(g.n) };
   });
   // "This season" on the calendar of the first invoice in list order.
-  const first = q.cursor ? (await prepared.first[side].many({ me: viewer.id, limit: 1 }))[0] : page[0];
-  const zone = first ? ((await ctx.ds.manager.findOne(Contract, { where: { id: first.contractId }, select: { id: true, timeZone: true } }))?.timeZone ?? 'UTC') : 'UTC';
+  const first = q.cursor ? (await invoiceLists.first[side].many(em, { me: viewer.id, limit: 1 }))[0] : page[0];
+  const zone = first ? ((await em.findOne(Contract, { where: { id: first.contractId }, select: { id: true, timeZone: true } }))?.timeZone ?? 'UTC') : 'UTC';
   return {
     side,
     items,
