@@ -19,6 +19,7 @@ import { Documents1765200000000 } from './migrations/1765200000000-documents';
 import { Invoices1765300000000 } from './migrations/1765300000000-invoices';
 import { MarketFigures1765400000000 } from './migrations/1765400000000-market-figures';
 import { InvoiceListOrder1766300000000 } from './migrations/1766300000000-invoice-list-order';
+import { LogMovesIndex1766300100000 } from './migrations/1766300100000-log-moves-index';
 import { registerSqlFunctions } from './sql-functions';
 
 export const entities = [Account, Session, Block, BlockPhoto, Bid, Contract, ContractSignature, ContractAmendment, LogEntry, LogPhoto, SignOff, OutboxMessage, Document, Invoice, InvoiceCounter, PaymentEventRecord, PaymentCustomer];
@@ -33,6 +34,7 @@ export const migrations = [
   Invoices1765300000000,
   MarketFigures1765400000000,
   InvoiceListOrder1766300000000,
+  LogMovesIndex1766300100000,
 ];
 
 /** `database` is a file path, or ':memory:' for tests. Migrations only; never synchronize. */
