@@ -138,6 +138,27 @@ export function localDateKey(instantMs: number, timeZone: string): string {
   return dateKeyOf(w.year, w.month, w.day);
 }
 
+/** Local UTC offsets lie within this (the tz database has −12 h … +14 h); a bound for the shortcut below. */
+const MAX_OFFSET_MS = 18 * 3_600_000;
+
+/**
+ * localDateKey(instantMs, timeZone) > dateKey, without asking Intl for instants more than a day from that
+ * date's end (whatever the zone's offset, their local date is certain): a log compares every entry with its
+ * end and out-by dates, and nearly all of them are days away.
+ */
+export function isAfterLocalDay(instantMs: number, dateKey: string, timeZone: string): boolean {
+  // Midnight after dateKey as if it were UTC: local wall time at instantMs is instantMs + offset.
+  const wallEnd = parseDateKeyUtc(dateKey) + MS_PER_DAY;
+  if (instantMs + MAX_OFFSET_MS < wallEnd) return false;
+  if (instantMs - MAX_OFFSET_MS >= wallEnd) return true;
+  return localDateKey(instantMs, timeZone) > dateKey;
+}
+
+function parseDateKeyUtc(dateKey: string): number {
+  const { year, month, day } = parseDateKey(dateKey);
+  return utcFromWall({ year, month, day, hour: 0, minute: 0, second: 0 });
+}
+
 function parseDateKey(dateKey: string): { year: number; month: number; day: number } {
   const m = DATE_KEY.exec(dateKey);
   if (!m) throw new GrazingInputError('date', 'Date must look like 2027-01-15');

@@ -25,8 +25,11 @@ export class PreparedSelect<T extends ObjectLiteral> {
 
   constructor(
     private readonly build: (em: EntityManager) => SelectQueryBuilder<T>,
-    /** `limit: true` ends the statement with LIMIT :limit (the builder's own limit would be fixed in the text). */
-    private readonly options: { limit?: boolean } = {},
+    /**
+     * `limit: true` ends the statement with LIMIT :limit, `offset: true` with LIMIT :limit OFFSET :offset (the
+     * builder's own limit and offset would be fixed in the text).
+     */
+    private readonly options: { limit?: boolean; offset?: boolean } = {},
   ) {}
 
   private prepared(em: EntityManager): Built {
@@ -36,7 +39,8 @@ export class PreparedSelect<T extends ObjectLiteral> {
       const qb = this.build(ds.manager);
       const meta = qb.expressionMap.mainAlias!.metadata;
       const columns = meta.columns.map((column) => ({ key: DriverUtils.buildAlias(ds.driver, undefined, qb.alias, column.databaseName), column }));
-      built = { sql: this.options.limit ? `${qb.getQuery()} LIMIT :limit` : qb.getQuery(), meta, columns };
+      const paging = this.options.offset ? ' LIMIT :limit OFFSET :offset' : this.options.limit ? ' LIMIT :limit' : '';
+      built = { sql: `${qb.getQuery()}${paging}`, meta, columns };
       this.built.set(ds, built);
     }
     return built;

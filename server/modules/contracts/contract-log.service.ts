@@ -15,7 +15,7 @@ import { PreparedSelect } from '../../lib/db/prepared-select';
 import { decodeCursor, encodeCursor } from './cursor';
 import { assertCanRead, assertParty, partyOf } from './contracts.policy';
 import type { ContractTerms } from '../../../lib/contract-terms';
-import { localDateKey, parseIsoInstant, startOfLocalDay } from '../../../lib/dates';
+import { isAfterLocalDay, parseIsoInstant, startOfLocalDay } from '../../../lib/dates';
 import { formatDay, formatNumber } from '../../../lib/format';
 import { GrazingInputError } from '../../../lib/grazing/errors';
 import { parseMoves } from '../../../lib/grazing/head-days';
@@ -101,9 +101,8 @@ function headAt(moves: Array<{ atMs: number; change: number }>, atMs: number): n
 
 /** Flags that follow from the terms in force (recomputed on every read, so an amended out-by date moves them). */
 function dateFlags(e: { atMs: number }, terms: ContractTerms): string[] {
-  const day = localDateKey(e.atMs, terms.block.timeZone);
-  if (day > terms.outBy) return [afterOutByFlag(terms.outBy)];
-  if (day > terms.endDate) return [afterEndDateFlag(terms.endDate)];
+  if (isAfterLocalDay(e.atMs, terms.outBy, terms.block.timeZone)) return [afterOutByFlag(terms.outBy)];
+  if (isAfterLocalDay(e.atMs, terms.endDate, terms.block.timeZone)) return [afterEndDateFlag(terms.endDate)];
   return [];
 }
 
