@@ -166,9 +166,13 @@ function invoicePage(side: InvoiceSide, after: boolean) {
 }
 
 /**
- * Every invoice of one side in a few groups alike in what the totals need: the block's zone (for "today" and
- * overdue), the status, the due date and the paid day (or, where none was kept, the paid instant).
+ * Every invoice of one side in a few groups alike in what the totals need: the block's zone (for "today"), the
+ * status, and only then what that status's figure depends on — a sent invoice's due date (overdue or not), a
+ * paid one's year (the season) or, where no paid day was kept, its paid instant.
  */
+const SENT_DUE = "CASE WHEN i.status = 'sent' THEN i.due_date END";
+const PAID_YEAR = "CASE WHEN i.status = 'paid' AND i.paid_at IS NOT NULL THEN SUBSTR(i.paid_day, 1, 4) END";
+const PAID_AT = "CASE WHEN i.status = 'paid' AND i.paid_day IS NULL THEN i.paid_at END";
 function invoiceTotalsOf(side: InvoiceSide) {
   return new PreparedSelect((em) =>
     em
@@ -176,17 +180,17 @@ function invoiceTotalsOf(side: InvoiceSide) {
       .innerJoin(Contract, 'c', 'c.id = i.contract_id')
       .select('c.time_zone', 'zone')
       .addSelect('i.status', 'status')
-      .addSelect('i.due_date', 'due')
-      .addSelect('CASE WHEN i.paid_at IS NULL THEN NULL ELSE i.paid_day END', 'paidDay')
-      .addSelect('CASE WHEN i.paid_day IS NULL THEN i.paid_at END', 'paidAt')
+      .addSelect(SENT_DUE, 'due')
+      .addSelect(PAID_YEAR, 'paidYear')
+      .addSelect(PAID_AT, 'paidAt')
       .addSelect('SUM(i.total_cents)', 'cents')
       .addSelect('COUNT(*)', 'n')
       .where(side === 'receivable' ? 'i.grazier_id = :me' : 'i.grower_id = :me')
       .groupBy('c.time_zone')
       .addGroupBy('i.status')
-      .addGroupBy('i.due_date')
-      .addGroupBy('CASE WHEN i.paid_at IS NULL THEN NULL ELSE i.paid_day END')
-      .addGroupBy('CASE WHEN i.paid_day IS NULL THEN i.paid_at END'),
+      .addGroupBy(SENT_DUE)
+      .addGroupBy(PAID_YEAR)
+      .addGroupBy(PAID_AT),
   );
 }
 
@@ -199,8 +203,8 @@ const invoiceLists = {
 interface TotalsRow {
   zone: string;
   status: InvoiceStatus;
-  due: string;
-  paidDay: string | null;
+  due: string | null;
+  paidYear: string | null;
   paidAt: number | string | null;
   cents: number | string;
   n: number | string;
@@ -229,14 +233,13 @@ export async function listInvoices(ctx: ServiceContext, viewer: Account, query: 
   const todays = new Map<string, string>();
   const todayAt = (zone: string) => todays.get(zone) ?? todays.set(zone, todayIn(zone, now)).get(zone)!;
   const lines = groups.map((g) => {
-    const status = g.status;
-    const today = todayAt(g.zone);
-    const paidDay = status === 'paid' && (g.paidDay !== null || g.paidAt !== null) ? (g.paidDay ?? todayIn(g.zone, Number(g.paidAt))) : null;
-    return { displayStatus: displayStatus(status, g.due, today), totalCents: Number(g.cents), paidDay, count: Number(g.n) };
+    // Only the year of the paid day decides the season, so the year stands in for the day.
+    const paidDay = g.paidYear !== null ? `${g.paidYear}-01-01` : g.paidAt !== null ? todayIn(g.zone, Number(g.paidAt)) : null;
+    return { displayStatus: g.due !== null ? displayStatus(g.status, g.due, todayAt(g.zone)) : g.status, totalCents: Number(g.cents), paidDay, count: Number(g.n) };
   });
-  // "This season" on the calendar of the first invoice in list order.
-  const first = q.cursor ? (await invoiceLists.first[side].many(em, { me: viewer.id, limit: 1 }))[0] : page[0];
-  const zone = first ? ((await em.findOne(Contract, { where: { id: first.contractId }, select: { id: true, timeZone: true } }))?.timeZone ?? 'UTC') : 'UTC';
+  // "This season" on the calendar of the first invoice in list order (the first page's first item).
+  const first = q.cursor ? (await invoiceLists.first[side].many(em, { me: viewer.id, limit: 1 }))[0] : undefined;
+  const zone = (first ? (await invoiceViews(em, ctx, viewer.id, [first]))[0] : items[0])?.block.timeZone ?? 'UTC';
   return {
     side,
     items,
