@@ -2,6 +2,10 @@
 // on the same machine. Every request goes to servers this script starts on loopback, in bounded loops.
 // The first-screen figures put Fieldfold beside a blank two-screen Expo Router app (scripts/bench/blank-app.mjs),
 // exported here in single and static output, compressed by the same build step and served by the same server.
+//
+// npm run bench -- --engines sqlite,postgres runs the season's load figures (scripts/bench/load.mjs) on each engine
+// named — PostgreSQL on a throw-away cluster started like npm test's (scripts/postgres.mjs), with its default
+// settings — and prints them side by side, one column per engine. Without --engines: everything, on SQLite.
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
@@ -11,6 +15,65 @@ import { buildIfStale, buildServer, buildWeb, ensureDependencies, freePort, root
 import { benchLoad } from './bench/load.mjs';
 import { writeBlankApp } from './bench/blank-app.mjs';
 import { coldContent, coldLoad, PHONE, UNTHROTTLED } from './bench/cold-load.mjs';
+import { startPostgres } from './postgres.mjs';
+
+const enginesArg = process.argv.slice(2).find((a, i, all) => a.startsWith('--engines') && (a.includes('=') || all[i + 1]));
+if (enginesArg) {
+  const list = (enginesArg.includes('=') ? enginesArg.split('=')[1] : process.argv[process.argv.indexOf(enginesArg) + 1]).split(',').map((e) => e.trim());
+  const unknown = list.filter((e) => e !== 'sqlite' && e !== 'postgres');
+  if (unknown.length || list.length === 0) {
+    console.error(`[fieldfold] --engines takes sqlite, postgres or both (got ${unknown.join(', ') || 'nothing'})`);
+    process.exit(1);
+  }
+  ensureDependencies();
+  buildServer();
+  process.exitCode = await benchEngines(list);
+  process.exit();
+}
+
+/** The load figures once per engine, then one table with a column per engine; resolves with the budgets missed. */
+async function benchEngines(engines) {
+  const columns = {};
+  let missed = 0;
+  let postgres;
+  try {
+    for (const engine of engines) {
+      console.log(`\n[fieldfold] the season's load on ${engine === 'postgres' ? 'PostgreSQL' : 'SQLite'}…`);
+      const figures = new Map();
+      // An indented figure belongs to the one above it ("  alone, one request at a time" follows each read).
+      let parent = '';
+      const collect = (what, figure) => {
+        if (!what.startsWith(' ')) parent = what;
+        figures.set(what.startsWith(' ') ? `${parent}\n${what}` : what, figure);
+        console.log(`${what.padEnd(58)} ${figure}`);
+      };
+      let databaseUrl = null;
+      if (engine === 'postgres') {
+        postgres ??= await startPostgres();
+        databaseUrl = postgres.createDatabase('fieldfold_bench');
+      }
+      missed += await benchLoad(collect, { databaseUrl });
+      columns[engine] = figures;
+    }
+  } finally {
+    await postgres?.stop();
+  }
+  // One row per figure, a column per engine; the budget verdicts come after the table, per engine.
+  const verdicts = new Set(['budgets', 'budgets missed']);
+  const labels = [...new Set(Object.values(columns).flatMap((m) => [...m.keys()]))].filter((l) => !verdicts.has(l));
+  const shown = (label) => label.split('\n').pop();
+  const head = engines.map((e) => (e === 'postgres' ? 'PostgreSQL' : 'SQLite'));
+  const width = Math.max(...labels.map((l) => shown(l).length), 10);
+  const colWidth = Math.min(80, Math.max(...labels.flatMap((l) => engines.map((e) => (columns[e].get(l) ?? '—').length)), 12));
+  console.log(`\n${'figure'.padEnd(width)} | ${head.map((h) => h.padEnd(colWidth)).join(' | ')}`);
+  console.log(`${'-'.repeat(width)}-|-${head.map(() => '-'.repeat(colWidth)).join('-|-')}`);
+  for (const label of labels) console.log(`${shown(label).padEnd(width)} | ${engines.map((e) => (columns[e].get(label) ?? '—').padEnd(colWidth)).join(' | ')}`);
+  for (const [e, h] of engines.map((e, i) => [e, head[i]])) {
+    const m = columns[e];
+    console.log(`${h}: ${m.has('budgets missed') ? `budgets missed: ${m.get('budgets missed')}` : m.get('budgets') ?? ''}`);
+  }
+  return missed ? 1 : 0;
+}
 
 // Cold runs per app and profile, taken round-robin; the median is reported.
 const RUNS = Number(process.env.BENCH_RUNS ?? 7);

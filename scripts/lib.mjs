@@ -79,8 +79,8 @@ export function freePort() {
 }
 
 /** Starts the built server with `env` and resolves once /api/health answers. */
-export async function startServer(env, { quiet = false } = {}) {
-  const child = spawn(process.execPath, [serverEntry], {
+export async function startServer(env, { quiet = false, timeoutMs = 90_000 } = {}) {
+  const child = spawn(process.execPath, ['--enable-source-maps', serverEntry], {
     cwd: root,
     env: { ...process.env, ...env },
     stdio: quiet ? ['ignore', 'pipe', 'pipe'] : 'inherit',
@@ -89,7 +89,7 @@ export async function startServer(env, { quiet = false } = {}) {
   child.stdout?.on('data', (d) => (output += d));
   child.stderr?.on('data', (d) => (output += d));
   const url = `http://127.0.0.1:${env.PORT}/api/health`;
-  const deadline = Date.now() + 30_000;
+  const deadline = Date.now() + timeoutMs;
   while (Date.now() < deadline) {
     if (child.exitCode !== null) throw new Error(`server exited early (${child.exitCode}):\n${output}`);
     try {
@@ -101,5 +101,53 @@ export async function startServer(env, { quiet = false } = {}) {
     await new Promise((r) => setTimeout(r, 150));
   }
   child.kill('SIGTERM');
-  throw new Error(`server did not answer ${url} within 30 s:\n${output}`);
+  throw new Error(`server did not answer ${url} within ${timeoutMs / 1000} s:\n${output}`);
+}
+
+/** SERVER_PROCESSES as a number from 1 to 64; a clear sentence naming the variable otherwise. */
+export function serverProcesses(env = process.env) {
+  const raw = env.SERVER_PROCESSES ?? '';
+  if (raw === '') return 1;
+  const n = Number(raw);
+  if (!Number.isInteger(n) || n < 1 || n > 64) throw new Error(`SERVER_PROCESSES must be a whole number from 1 to 64 (got ${JSON.stringify(raw)})`);
+  return n;
+}
+
+/**
+ * Starts `count` server processes on PORT, PORT+1, … with the same `env` otherwise (one database, one DATA_DIR, the
+ * same local services), and resolves once each answers /api/health. The first starts alone and migrates and seeds;
+ * the others start once it answers, so they find the schema made (on PostgreSQL the advisory lock would also keep
+ * them apart, on SQLite this order is what does).
+ */
+export async function startServers(count, env, options = {}) {
+  const base = Number(env.PORT);
+  const children = [await startServer({ ...env, PORT: String(base) }, options)];
+  try {
+    const rest = await Promise.allSettled(Array.from({ length: count - 1 }, (_, i) => startServer({ ...env, PORT: String(base + 1 + i) }, options)));
+    for (const r of rest) if (r.status === 'fulfilled') children.push(r.value);
+    const failed = rest.find((r) => r.status === 'rejected');
+    if (failed) throw failed.reason;
+  } catch (err) {
+    await stopServers(children);
+    throw err;
+  }
+  return children;
+}
+
+/** SIGTERM to each server process, SIGKILL after 5 s; resolves when all have exited. */
+export async function stopServers(children) {
+  await Promise.all(
+    children.map(
+      (child) =>
+        new Promise((resolve) => {
+          if (child.exitCode !== null || child.signalCode !== null) return resolve();
+          const timer = setTimeout(() => child.kill('SIGKILL'), 5_000);
+          child.once('exit', () => {
+            clearTimeout(timer);
+            resolve();
+          });
+          child.kill('SIGTERM');
+        }),
+    ),
+  );
 }

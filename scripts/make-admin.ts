@@ -11,12 +11,13 @@ async function main() {
     process.exit(2);
   }
   const config = loadConfig();
-  const ds = await openDatabase(config.databasePath);
+  // The server's own database: DATABASE_URL when set, else the SQLite file in DATA_DIR.
+  const ds = await openDatabase(config.databaseUrl ?? config.databasePath);
   try {
     const repo = ds.getRepository(Account);
     const account = await repo.findOneBy({ email });
     if (!account) {
-      console.error(`No account with email ${email} in ${config.databasePath}`);
+      console.error(`No account with email ${email} in ${config.databaseUrl ? 'the PostgreSQL database' : config.databasePath}`);
       process.exit(1);
     }
     const roles = new Set(account.roles.split(',').filter(Boolean));

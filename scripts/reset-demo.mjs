@@ -4,6 +4,11 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { root } from './lib.mjs';
 
+// A PostgreSQL database (DATABASE_URL) may be anybody's: this command never empties one.
+if (process.env.DATABASE_URL) {
+  console.error('[fieldfold] seed:reset deletes the SQLite file in DATA_DIR only; with DATABASE_URL set, drop and create that database yourself (dropdb / createdb), then npm start seeds it.');
+  process.exit(1);
+}
 const dataDir = path.resolve(root, process.env.DATA_DIR ?? 'data');
 for (const f of ['fieldfold.sqlite', 'fieldfold.sqlite-wal', 'fieldfold.sqlite-shm']) fs.rmSync(path.join(dataDir, f), { force: true });
 // Uploaded photos belong to the database's blocks: they go with it.

@@ -1,15 +1,19 @@
 // npm test: the one command that runs every suite on a fresh Debian machine.
 // 1. installs dependencies (npm ci) and Debian's chromium when missing;
-// 2. jest: the app project (jest-expo) and the server project (supertest on createApp, lib checks);
+// 2. jest: the app project (jest-expo) and the server project (supertest on createApp, lib checks), on SQLite;
+//    then the server suite again on PostgreSQL: Debian's postgresql (installed when missing), a throw-away cluster
+//    on a free port (scripts/postgres.mjs), TEST_DATABASE_URL pointing at it (each test app gets its own database),
+//    two real server processes on one database among them (two-processes.test.ts); the cluster stops at the end;
 // 3. builds the web app and server, starts the local services (mail sink) and the real server on free
 //    ports with a throw-away DATA_DIR, and runs the browser suite (playwright-core driving /usr/bin/chromium);
-// 4. prints one closing line totalling every suite: "N passed, N failed".
+// 4. prints one closing line totalling every suite: "N passed, N failed", after a line per suite.
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import { spawnSync } from 'node:child_process';
 import { buildServer, buildWeb, ensureDependencies, freePort, root, startServer } from './lib.mjs';
 import { startLocalServices } from './local-services.mjs';
+import { startPostgres } from './postgres.mjs';
 
 const CHROMIUM = '/usr/bin/chromium';
 const artifacts = path.join(root, 'artifacts');
@@ -51,10 +55,23 @@ const add = (name, r) => {
 
 let server;
 let services;
+let postgres;
 try {
   ensureDependencies();
   ensureChromium();
   add('jest (app + server + lib)', jest(['--ci'], 'jest-unit.json'));
+
+  try {
+    postgres = await startPostgres({ durable: false });
+    // Two workers: the tests wait on the database server much of the time, so a second one keeps both cores busy.
+    add('server suite on PostgreSQL', jest(['--ci', '--maxWorkers=2', '--testPathPattern', '__tests__/server', '--selectProjects', 'server'], 'jest-postgres.json', { TEST_DATABASE_URL: postgres.url() }));
+  } catch (err) {
+    console.error(`[fieldfold] the PostgreSQL pass could not run: ${err.message}`);
+    add('server suite on PostgreSQL', { passed: 0, failed: 1 });
+  } finally {
+    await postgres?.stop();
+    postgres = undefined;
+  }
 
   buildWeb();
   buildServer();
@@ -71,6 +88,7 @@ try {
 } finally {
   server?.kill('SIGTERM');
   await services?.stop();
+  await postgres?.stop();
 }
 
 console.log(`${totals.passed} passed, ${totals.failed} failed`);

@@ -10,7 +10,10 @@ import type { PaymentsPort } from './lib/payments';
 import { errorHandler, notFoundHandler } from './lib/errors/error-handler';
 import type { MailOutbox } from './lib/mail/outbox';
 import { appLinks } from './lib/mail/links';
-import { compressAndCache, webApp } from './lib/http/web-app';
+import { compressAndCache, webApp, webAppInlineScriptHashes } from './lib/http/web-app';
+import { apiCors, securityHeaders } from './lib/http/security-headers';
+import { apiRateLimits, type RateLimitOptions } from './lib/http/rate-limit';
+import { refuseBuiltInKeys } from './lib/http/validate';
 import { localPhotoStore } from './lib/storage/photo-store';
 import { localFileStore } from './lib/storage/file-store';
 import type { PdfRenderer } from './lib/pdf/pdf-renderer';
@@ -38,6 +41,10 @@ export interface AppDeps {
   now?: () => number;
   /** The payments API (server/lib/payments): the SDK adapter on the local fake or the hosted API. */
   payments: PaymentsPort;
+  /** Request limits (server/lib/http/rate-limit.ts): other numbers, or another store than this process's memory. */
+  rateLimits?: RateLimitOptions;
+  /** Express's `trust proxy`: which hops' X-Forwarded-For to believe for the client address (default loopback). */
+  trustProxy?: string | number;
 }
 
 /** The ports the business modules use, from the app's dependencies (tests build one to call services directly). */
@@ -63,19 +70,28 @@ export function createApp(deps: AppDeps): Express {
   // No ETag computed over every JSON answer (a hash of the whole body, each time): /api answers are no-store, so
   // nothing revalidates them. The files keep their own validators (serve-static's, and the documents' SHA-256).
   app.set('etag', false);
-  app.set('trust proxy', 'loopback');
+  // The rate limits count per client address: only a proxy we run may say what it is (X-Forwarded-For).
+  app.set('trust proxy', deps.trustProxy ?? 'loopback');
+  app.use(
+    securityHeaders({
+      inlineScriptHashes: deps.webDir ? webAppInlineScriptHashes(deps.webDir) : [],
+      https: (deps.publicUrl ?? '').startsWith('https://'),
+      corsOrigin: deps.corsOrigin ?? null,
+    }),
+  );
   app.use(compressAndCache());
 
   const api = express.Router();
-  if (deps.corsOrigin) {
-    const origin = deps.corsOrigin;
-    api.use((req, res, next) => {
-      res.set({ 'Access-Control-Allow-Origin': origin, 'Access-Control-Allow-Headers': 'Authorization, Content-Type', 'Access-Control-Allow-Methods': 'GET, POST, PATCH, DELETE', Vary: 'Origin' });
-      if (req.method === 'OPTIONS') return void res.status(204).end();
-      next();
-    });
-  }
-  api.use(express.json({ limit: '200kb' }));
+  if (deps.corsOrigin) api.use(apiCors(deps.corsOrigin));
+  // Limits first, so a refused request costs no JSON parse, no multer read and no bcrypt (numbers in rate-limit.ts).
+  const limits = apiRateLimits(deps.tokens.secret, deps.rateLimits);
+  api.use(limits.writes);
+  api.post(['/blocks/:id/photos', '/contracts/:id/log/:entryId/photos'], limits.uploads);
+  api.use(express.json({ limit: '200kb' }), refuseBuiltInKeys);
+  // After the parser: these count per email as well as per address.
+  api.post('/auth/login', limits.signIn);
+  api.post('/auth/register', limits.signUp);
+  api.post(['/auth/password-reset', '/auth/password-reset/confirm'], limits.passwordReset);
   api.get('/health', async (_req, res) => {
     await deps.dataSource.query('SELECT 1');
     res.json({ ok: true, service: 'fieldfold' });

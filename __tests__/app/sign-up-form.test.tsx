@@ -42,4 +42,16 @@ describe('SignUpForm', () => {
     expect(JSON.parse(init.body)).toEqual({ name: 'Pia Lindqvist', email: 'pia@orchard.example', password: 'a-long-orchard-password', roles: ['grower'] });
     queryClient.clear();
   });
+
+  it('refuses a password longer than bcrypt reads (72 UTF-8 bytes) before anything is sent', async () => {
+    const { queryClient } = await renderWithProviders(<SignUpForm />);
+    fireEvent.changeText(screen.getByLabelText('Your name'), 'Jürgen Müller');
+    fireEvent.changeText(screen.getByLabelText('Email'), 'juergen@orchard.example');
+    fireEvent.changeText(screen.getByLabelText('Password'), 'ü'.repeat(37));
+    fireEvent.press(screen.getByRole('checkbox', { name: 'I have land to graze' }));
+    fireEvent.press(screen.getByRole('button', { name: 'Create account' }));
+    expect(await screen.findByText('Password must be at most 72 bytes: 72 plain letters, fewer with accents or emoji')).toBeTruthy();
+    expect(fetchMock).not.toHaveBeenCalled();
+    queryClient.clear();
+  });
 });

@@ -13,6 +13,8 @@ export interface Browser {
   page: Page;
   /** Every URL the page asked for that was not on the Fieldfold server (should stay empty: fonts ship with the app). */
   offsite: string[];
+  /** What the content-security policy refused on any page (close() fails the test when it is not empty). */
+  cspViolations: string[];
   close: () => Promise<void>;
 }
 
@@ -31,13 +33,19 @@ export async function openBrowser(viewport: { width: number; height: number }): 
     const url = req.url();
     if (!url.startsWith(BASE_URL) && !url.startsWith('data:') && !url.startsWith('blob:')) offsite.push(url);
   });
+  const cspViolations: string[] = [];
+  context.on('console', (msg) => {
+    if (/Content Security Policy/i.test(msg.text())) cspViolations.push(msg.text());
+  });
   return {
     context,
     page,
     offsite,
+    cspViolations,
     close: async () => {
       await context.close();
       fs.rmSync(profile, { recursive: true, force: true });
+      if (cspViolations.length > 0) throw new Error(`The content-security policy refused: ${cspViolations.join(' | ')}`);
     },
   };
 }
@@ -45,6 +53,21 @@ export async function openBrowser(viewport: { width: number; height: number }): 
 export async function screenshot(page: Page, name: string) {
   fs.mkdirSync(SHOTS, { recursive: true });
   await page.screenshot({ path: path.join(SHOTS, `${name}.png`), fullPage: true });
+}
+
+/**
+ * Waits until `expression` (JavaScript text: the suite compiles without the DOM's types) is truthy in the page.
+ * Not page.waitForFunction: with a string it evaluates the text from inside the page, which the app's
+ * content-security policy refuses as eval (no 'unsafe-eval'); page.evaluate goes through the debugger protocol.
+ */
+export async function waitForExpression(page: Page, expression: string, timeoutMs = 30_000): Promise<void> {
+  const until = Date.now() + timeoutMs;
+  for (;;) {
+    // A navigation in between destroys the context the expression ran in: try again in the next one.
+    if (await page.evaluate(expression).catch(() => false)) return;
+    if (Date.now() > until) throw new Error(`timed out after ${timeoutMs} ms waiting for: ${expression}`);
+    await new Promise((r) => setTimeout(r, 100));
+  }
 }
 
 /** A labelled input on the visible screen (a stack navigator can keep a hidden copy of the previous screen). */
@@ -72,10 +95,17 @@ export async function tabNames(page: Page): Promise<string[]> {
 
 /** Calls the API directly (set-up and cross-checks); throws with the body on any 4xx/5xx. */
 export async function api<T>(path: string, init: { method?: string; body?: unknown; token?: string } = {}): Promise<T> {
-  const res = await fetch(`${BASE_URL}/api${path}`, {
-    method: init.method ?? (init.body ? 'POST' : 'GET'),
-    headers: { 'Content-Type': 'application/json', ...(init.token ? { Authorization: `Bearer ${init.token}` } : {}) },
-    body: init.body ? JSON.stringify(init.body) : undefined,
+  const send = () =>
+    fetch(`${BASE_URL}/api${path}`, {
+      method: init.method ?? (init.body ? 'POST' : 'GET'),
+      headers: { 'Content-Type': 'application/json', ...(init.token ? { Authorization: `Bearer ${init.token}` } : {}) },
+      body: init.body ? JSON.stringify(init.body) : undefined,
+    });
+  // Node's fetch keeps connections open between calls; one idle for the server's 5 s keep-alive may be closed by the
+  // server just as a call goes out on it ("other side closed", before the server read a byte): send it once more.
+  const res = await send().catch((err: { cause?: { code?: string } }) => {
+    if (err?.cause?.code === 'UND_ERR_SOCKET') return send();
+    throw err;
   });
   const json = (await res.json().catch(() => ({}))) as T;
   if (!res.ok) throw new Error(`${path}: ${res.status} ${JSON.stringify(json)}`);

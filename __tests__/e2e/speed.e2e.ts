@@ -1,5 +1,5 @@
 import type { BrowserContext, Response } from 'playwright-core';
-import { api, BASE_URL, PHONE, WIDE, button, field, openBrowser, screenshot, type Browser } from './browser';
+import { api, BASE_URL, PHONE, WIDE, button, field, openBrowser, screenshot, waitForExpression, type Browser } from './browser';
 
 // Issue 7 (fast on a phone) and the offline shell of issue 8, in the browser: deep links on a cold load and a
 // reload, compressed scripts, fonts from this machine, and a page that still renders with the network gone.
@@ -28,7 +28,7 @@ async function firstBlock(token: string) {
 
 /** Resolves once the service worker controls the page, i.e. it has installed and precached the app shell. */
 async function serviceWorkerInControl(b: Browser) {
-  await b.page.waitForFunction("navigator.serviceWorker?.controller?.state === 'activated'", null, { timeout: 60_000 });
+  await waitForExpression(b.page, "navigator.serviceWorker?.controller?.state === 'activated'", 60_000);
 }
 
 describe('Phone speed and the offline shell', () => {
@@ -111,7 +111,7 @@ describe('Phone speed and the offline shell', () => {
     await field(b.page, 'Password').pressSequentially(PASSWORD);
     expect(await b.page.evaluate(HYDRATED)).toBe(false);
     release();
-    await b.page.waitForFunction(HYDRATED);
+    await waitForExpression(b.page, HYDRATED);
     expect(await field(b.page, 'Email').inputValue()).toBe('wade@calder.example');
     await button(b.page, 'Sign in').click();
     await b.page.getByRole('heading', { name: 'Find grazing' }).waitFor();

@@ -4,10 +4,12 @@ import path from 'node:path';
 import request from 'supertest';
 import type { DataSource } from 'typeorm';
 import { openDatabase } from '../../server/db/data-source';
+import { freshTestDatabase } from './test-database';
 import { createApp, serviceContext, type AppDeps } from '../../server/app';
 import { MemoryMail } from '../../server/lib/mail/memory-mail';
 import { OutboxSender } from '../../server/lib/mail/outbox';
 import { createPayments, type PaymentsPort } from '../../server/lib/payments';
+import { DEFAULT_RATE_LIMITS, type RateLimitSettings } from '../../server/lib/http/rate-limit';
 
 // Long enough that tests may move the app's clock through a season without the session expiring.
 export const TEST_TOKENS = { secret: 'test-secret-that-is-long-enough-to-sign-tokens', ttl: '400d' };
@@ -26,11 +28,26 @@ export interface TestAppOptions {
   payments?: PaymentsPort;
   /** An exported web app to serve beside the API. */
   webDir?: string;
+  /** The Expo dev server's origin, for the CORS tests. */
+  corsOrigin?: string;
+  /** Where people open Fieldfold; default http://fieldfold.test. */
+  publicUrl?: string;
+  /** Request limits; by default every limit is out of reach (see UNREACHED_LIMITS). */
+  rateLimits?: AppDeps['rateLimits'];
 }
 
-/** A fresh in-memory SQLite that ran the real migrations, and the real app on top of it. */
+/**
+ * Tests send hundreds of requests from one address, far faster than people: limits no test reaches unless it
+ * asks for them (the rate-limit tests pass DEFAULT_RATE_LIMITS or smaller ones).
+ */
+export const UNREACHED_LIMITS: RateLimitSettings = Object.fromEntries(
+  Object.keys(DEFAULT_RATE_LIMITS).map((k) => [k, { limit: 1_000_000, windowMs: 60_000 }]),
+) as unknown as RateLimitSettings;
+
+/** A fresh database that ran the real migrations (in-memory SQLite, or PostgreSQL: helpers/test-database.ts), and the real app on top of it. */
 export async function makeTestApp(options: TestAppOptions = {}) {
-  const dataSource = await openDatabase(':memory:');
+  const database = await freshTestDatabase();
+  const dataSource = await openDatabase(database.target);
   const uploadsDir = fs.mkdtempSync(path.join(os.tmpdir(), 'fieldfold-uploads-'));
   const documentsDir = fs.mkdtempSync(path.join(os.tmpdir(), 'fieldfold-documents-'));
   const mail = new MemoryMail();
@@ -46,11 +63,13 @@ export async function makeTestApp(options: TestAppOptions = {}) {
     uploadsDir,
     documentsDir,
     outbox,
-    publicUrl: 'http://fieldfold.test',
+    publicUrl: options.publicUrl ?? 'http://fieldfold.test',
     now,
     pdf: options.pdf,
     payments: options.payments ?? createPayments({ mode: 'fake', secretKey: 'sk_test_nothing_answers', apiUrl: 'http://127.0.0.1:9', webhookSecret: 'whsec_unused_in_these_tests', webhookToleranceSeconds: 300 }),
     webDir: options.webDir,
+    corsOrigin: options.corsOrigin,
+    rateLimits: options.rateLimits ?? { limits: UNREACHED_LIMITS },
   };
   const app = createApp(deps);
   let n = 0;
@@ -81,6 +100,7 @@ export async function makeTestApp(options: TestAppOptions = {}) {
     close: async () => {
       await outbox.stop();
       await (dataSource as DataSource).destroy();
+      await database.drop();
       fs.rmSync(uploadsDir, { recursive: true, force: true });
       fs.rmSync(documentsDir, { recursive: true, force: true });
     },

@@ -8,6 +8,7 @@ import {
   chargeRequestSchema,
   forageRequestSchema,
   headDaysRequestSchema,
+  MAX_SPAN_DAYS,
   type CapacityRequest,
   type ChargeRequest,
   type ForageRequest,
@@ -183,6 +184,18 @@ describe('headDaysRequestSchema', () => {
       timeZone: 'Time zone must be an IANA name such as America/Los_Angeles',
     });
     expect(await errorsOf(headDaysRequestSchema, { moves: [], until: '2027-03-09T00:00:00Z' })).toEqual({ moves: 'Add at least one move' });
+  });
+
+  it('counts up to MAX_SPAN_DAYS from the first move and refuses a longer span, whose work would grow without bound', async () => {
+    const first = '2027-01-01T00:00:00Z';
+    const moves = [{ at: first, change: 5 }];
+    const dayAfterSpan = new Date(Date.parse(first) + (MAX_SPAN_DAYS * 86_400_000 + 1)).toISOString();
+    expect(await errorsOf(headDaysRequestSchema, { moves, until: new Date(Date.parse(first) + MAX_SPAN_DAYS * 86_400_000).toISOString() })).toEqual({});
+    expect(await errorsOf(headDaysRequestSchema, { moves, until: dayAfterSpan })).toEqual({ until: `End time must be at most ${MAX_SPAN_DAYS} days after the first move` });
+    // Year 1 to year 9999 was 3.65 million days of work for one unauthenticated request.
+    expect(await errorsOf(headDaysRequestSchema, { moves: [{ at: '0001-01-01T00:00:00Z', change: 5 }], until: '9999-12-31T00:00:00Z' })).toEqual({
+      until: `End time must be at most ${MAX_SPAN_DAYS} days after the first move`,
+    });
   });
 
   it('refuses a misspelt optional field rather than silently using UTC', async () => {

@@ -1,3 +1,4 @@
+import { MAX_PAGE } from '../../lib/schemas/paging';
 import { makeTestApp } from '../helpers/test-app';
 import { market, type Person } from '../helpers/market';
 import { MAX_BID_PAGE_SIZE } from '../../lib/schemas/bid';
@@ -57,6 +58,9 @@ describe('GET /api/blocks/:id/bids and GET /api/bids, a page at a time', () => {
       status: 'Status must be one of: live, accepted, declined, withdrawn',
     });
     expect((await m.api().get('/api/bids?page=0').set(graziers[0].auth)).body.error.fields).toEqual({ page: 'Page must be 1 or more' });
+    // A page past any offset the database reads was a 500 (found by the hostile-input properties).
+    const far = await m.api().get('/api/bids?page=99999999999999999999').set(graziers[0].auth);
+    expect({ status: far.status, fields: far.body.error.fields }).toEqual({ status: 400, fields: { page: `Page must be at most ${MAX_PAGE}` } });
   });
 
   it('When a grazier asks for the block\'s bids, then only their own, with a total of 1; a stranger to the block gets 404', async () => {

@@ -2,6 +2,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import request from 'supertest';
 import jwt from 'jsonwebtoken';
+import sharp from 'sharp';
 import { makeTestApp, TEST_TOKENS } from '../helpers/test-app';
 import { market } from '../helpers/market';
 
@@ -13,10 +14,14 @@ beforeEach(async () => {
 });
 afterEach(() => t.close());
 
-// Real signatures, then filler: the server judges files by their first bytes, as a browser would.
-const JPEG = Buffer.concat([Buffer.from([0xff, 0xd8, 0xff, 0xe0, 0x00, 0x10, 0x4a, 0x46, 0x49, 0x46, 0x00]), Buffer.alloc(500, 7)]);
-const PNG = Buffer.concat([Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]), Buffer.alloc(300, 1)]);
-const WEBP = Buffer.concat([Buffer.from('RIFF'), Buffer.from([0x24, 0, 0, 0]), Buffer.from('WEBPVP8 '), Buffer.alloc(40, 2)]);
+// Real (small) images: the server judges a file by its first bytes, then decodes and re-encodes it with sharp.
+let JPEG: Buffer;
+let PNG: Buffer;
+let WEBP: Buffer;
+beforeAll(async () => {
+  const pixels = () => sharp({ create: { width: 40, height: 30, channels: 3, background: { r: 120, g: 150, b: 70 } } });
+  [JPEG, PNG, WEBP] = await Promise.all([pixels().jpeg().toBuffer(), pixels().png().toBuffer(), pixels().webp().toBuffer()]);
+});
 
 async function upload(auth: Record<string, string>, blockId: string, bytes: Buffer, filename = 'photo.jpg', contentType = 'image/jpeg') {
   return m.api().post(`/api/blocks/${blockId}/photos`).set(auth).attach('photo', bytes, { filename, contentType });
@@ -29,10 +34,14 @@ describe('POST /api/blocks/:id/photos', () => {
     for (const [bytes, type] of [[JPEG, 'image/jpeg'], [PNG, 'image/png'], [WEBP, 'image/webp']] as const) {
       const res = await upload(g.auth, b.id, bytes, 'IMG_0001.jpg', 'application/octet-stream');
       expect(res.status).toBe(201);
-      expect(res.body.photo).toMatchObject({ mimeType: type, sizeBytes: bytes.length, url: expect.stringMatching(/^\/api\/blocks\/.+\/photos\/.+\?access=/) });
+      expect(res.body.photo).toMatchObject({ mimeType: type, sizeBytes: expect.any(Number), url: expect.stringMatching(/^\/api\/blocks\/.+\/photos\/.+\?access=/) });
     }
     const files = fs.readdirSync(t.uploadsDir);
     expect(files).toHaveLength(3);
+    // sizeBytes is the stored (re-encoded) file's size.
+    const sizes = files.map((f) => fs.statSync(path.join(t.uploadsDir, f)).size).sort();
+    const view0 = (await m.api().get(`/api/blocks/${b.id}`).set(g.auth)).body.block;
+    expect(view0.photos.map((p: { sizeBytes: number }) => p.sizeBytes).sort()).toEqual(sizes);
     expect(files.every((f) => /^[0-9a-f]{32}\.(jpg|png|webp)$/.test(f))).toBe(true);
     const view = (await m.api().get(`/api/blocks/${b.id}`).set(g.auth)).body.block;
     expect(view.photos.map((p: { mimeType: string }) => p.mimeType)).toEqual(['image/jpeg', 'image/png', 'image/webp']);
@@ -97,7 +106,9 @@ describe('GET /api/blocks/:id/photos/:photoId', () => {
     expect(viaLink.status).toBe(200);
     expect(viaLink.headers['content-type']).toBe('image/png');
     expect(viaLink.headers['x-content-type-options']).toBe('nosniff');
-    expect(Buffer.compare(viaLink.body as Buffer, PNG)).toBe(0);
+    // The stored file: the upload as sharp re-encoded it.
+    const [stored] = fs.readdirSync(t.uploadsDir);
+    expect(Buffer.compare(viaLink.body as Buffer, fs.readFileSync(path.join(t.uploadsDir, stored)))).toBe(0);
     const viaBearer = await m.api().get(`/api/blocks/${b.id}/photos/${photo.id}`).set(z.auth).buffer(true);
     expect(viaBearer.status).toBe(200);
   });

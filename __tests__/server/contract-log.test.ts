@@ -1,3 +1,6 @@
+import fs from 'node:fs';
+import path from 'node:path';
+import sharp from 'sharp';
 import request from 'supertest';
 import { makeTestApp } from '../helpers/test-app';
 import { clientId, contracts } from '../helpers/contracts';
@@ -12,7 +15,11 @@ beforeEach(async () => {
 });
 afterEach(() => t.close());
 
-const PNG = Buffer.concat([Buffer.from([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]), Buffer.alloc(300, 1)]);
+// A real PNG: uploads are decoded and re-encoded (sharp), so a signature with filler is refused now.
+let PNG: Buffer;
+beforeAll(async () => {
+  PNG = await sharp({ create: { width: 40, height: 30, channels: 3, background: { r: 120, g: 150, b: 70 } } }).png().toBuffer();
+});
 const IN = { kind: 'move', at: '2027-01-10T08:00:00-08:00', change: 600, paddock: 'North cell' };
 
 describe('POST /api/contracts/:id/log', () => {
@@ -177,7 +184,8 @@ describe('photos on log entries', () => {
     const viaLink = await request(t.app).get(photo.url).buffer(true);
     expect(viaLink.status).toBe(200);
     expect(viaLink.headers['content-type']).toBe('image/png');
-    expect(Buffer.compare(viaLink.body as Buffer, PNG)).toBe(0);
+    const [stored] = fs.readdirSync(t.uploadsDir);
+    expect(Buffer.compare(viaLink.body as Buffer, fs.readFileSync(path.join(t.uploadsDir, stored)))).toBe(0);
     const stranger = await c.grower('Sam Stranger');
     expect((await request(t.app).get(`${url}/${photo.id}`).set(stranger.auth)).status).toBe(404);
   });

@@ -4,6 +4,7 @@ import path from 'node:path';
 import express from 'express';
 import request from 'supertest';
 import { makeTestApp } from '../helpers/test-app';
+import { rawQuery } from '../helpers/test-database';
 import { market } from '../helpers/market';
 import { grazingLogData } from '../helpers/pdf-scenario';
 import type { ServiceContext } from '../../server/lib/service-context';
@@ -96,13 +97,11 @@ describe('storeDocument', () => {
 
   it('When the database already holds a version, then a second row with that number is refused by the unique index', async () => {
     const d = await latestDocument(ctx, { kind: 'grazing-log', contractId });
-    const err = await t.dataSource
-      .query(`INSERT INTO "documents" ("id", "kind", "contract_id", "version", "sha256", "size_bytes", "content_type", "storage_key") VALUES (?, 'grazing-log', ?, ?, 'x', 1, 'application/pdf', ?)`, [
-        crypto.randomUUID(),
-        contractId,
-        d!.version,
-        `grazing-log/${crypto.randomUUID()}.pdf`,
-      ])
+    const err = await rawQuery(
+      t.dataSource,
+      `INSERT INTO "documents" ("id", "kind", "contract_id", "version", "sha256", "size_bytes", "content_type", "storage_key") VALUES (:id, 'grazing-log', :contractId, :version, 'x', 1, 'application/pdf', :key)`,
+      { id: crypto.randomUUID(), contractId, version: d!.version, key: `grazing-log/${crypto.randomUUID()}.pdf` },
+    )
       .catch((e: unknown) => e);
     expect(isUniqueViolation(err)).toBe(true);
   });

@@ -1,6 +1,7 @@
 import fc from 'fast-check';
 import { DataSource } from 'typeorm';
 import { makeTestApp, TEST_NOW } from '../helpers/test-app';
+import { onPostgres, rawQuery } from '../helpers/test-database';
 import { seedSeasonBlocks, seedSeasonPeople, type SeasonPeople } from '../helpers/market-season';
 import { market } from '../helpers/market';
 import { migrations } from '../../server/db/data-source';
@@ -284,7 +285,7 @@ describe('the figures the market filters on are stored, and are lib\'s', () => {
       expect([b.grazeFrom, b.grazeUntil]).toEqual([span.from, span.until]);
       expect(b.allowableLb).toBe(allowableForage({ acres: b.acres, lbDmPerAcre: b.lbDmPerAcre, utilizationPct: b.targetUtilizationPct }).allowableLb);
       // And days of feed in SQL equal lib's capacity → daysForHead for a flock.
-      const [{ days }] = await t.dataSource.query('SELECT ((allowable_lb / ?) / ?) AS days FROM blocks WHERE id = ?', [3.75, 600, b.id]);
+      const [{ days }] = await rawQuery<{ days: number }>(t.dataSource, 'SELECT ((allowable_lb / :intake) / :head) AS days FROM blocks WHERE id = :id', { intake: 3.75, head: 600, id: b.id });
       const headDays = capacity({ acres: b.acres, lbDmPerAcre: b.lbDmPerAcre, utilizationPct: b.targetUtilizationPct, animal: { bodyWeightLb: 150, intakePctBodyWeight: 2.5 } }).headDays;
       expect(days).toBe(daysForHead(headDays, 600));
     }
@@ -321,7 +322,9 @@ describe('block views on a list page', () => {
   });
 });
 
-describe('the market\'s SQL uses its indexes (EXPLAIN QUERY PLAN)', () => {
+// SQLite's own query plans; PostgreSQL's planner picks by table statistics (a few hundred rows here favour a scan),
+// so there the same queries are checked for their answers only.
+(onPostgres ? describe.skip : describe)('the market\'s SQL uses its indexes (EXPLAIN QUERY PLAN)', () => {
   /** Every SELECT one listBlocks call runs, with the plan SQLite picks for it. */
   async function plans(viewer: Account, query: Record<string, string>) {
     const statements: Array<[string, unknown[]]> = [];

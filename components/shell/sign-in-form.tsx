@@ -32,6 +32,9 @@ export function SignInForm() {
           <FormTextField name="email" label="Email" autoComplete="email" inputMode="email" autoCapitalize="none" textContentType="emailAddress" />
           <FormTextField name="password" label="Password" secureTextEntry autoComplete="current-password" onSubmitEditing={() => handleSubmit()} />
           <Button title="Sign in" onPress={() => handleSubmit()} loading={isSubmitting} />
+          <Link href="/forgot-password">
+            <Text tone="cover">Forgotten password?</Text>
+          </Link>
           <Text tone="muted">
             New to Fieldfold?{' '}
             <Link href="/sign-up">

@@ -1,5 +1,5 @@
 import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import type { AccountView, LoginInput, ProfileInput, RegisterInput } from '@/lib/schemas/account';
+import type { AccountView, LoginInput, PasswordResetConfirm, PasswordResetRequest, ProfileInput, RegisterInput } from '@/lib/schemas/account';
 import { accountStorage } from '@/hooks/auth/token-storage';
 import { api, ApiError } from './client';
 
@@ -50,6 +50,12 @@ export function useMe(token: string | null) {
 export const registerAccount = (body: RegisterInput) => api<SessionPayload>('/auth/register', { body, token: null });
 export const loginAccount = (body: LoginInput) => api<SessionPayload>('/auth/login', { body, token: null });
 export const logoutAccount = () => api<void>('/auth/logout', { method: 'POST' });
+/** Asks for a reset link by mail; the server answers the same whether or not the email has an account. */
+export const requestPasswordReset = (body: PasswordResetRequest) => api<{ message: string }>('/auth/password-reset', { body, token: null });
+/** Sets a new password with the mailed token; every device is signed out, so the person signs in afresh. */
+export const confirmPasswordReset = (body: PasswordResetConfirm) => api<void>('/auth/password-reset/confirm', { body, token: null });
+/** Trades a signed-in token for a new one; the server closes the old session (hooks/auth/token-rotation.ts). */
+export const refreshSession = (token: string) => api<SessionPayload>('/auth/refresh', { method: 'POST', token });
 
 export function useUpdateProfile() {
   const qc = useQueryClient();

@@ -2,9 +2,10 @@ import { createContext, useCallback, useContext, useEffect, useMemo, useState, t
 import { useQueryClient } from '@tanstack/react-query';
 import type { AccountView } from '@/lib/schemas/account';
 import { ApiError, setAuthToken, setUnauthorizedHandler } from '@/hooks/api/client';
-import { accountKeys, logoutAccount, useMe, type SessionPayload } from '@/hooks/api/account';
+import { accountKeys, logoutAccount, refreshSession, useMe, type SessionPayload } from '@/hooks/api/account';
 import { deviceCopies, setDeviceCopyOwner } from '@/hooks/offline/device-copies';
 import { accountStorage, tokenStorage } from './token-storage';
+import { useTokenRotation } from './token-rotation';
 
 /**
  * 'unreachable': a token is kept but neither the server nor the device could say whose it is (first visit
@@ -62,6 +63,29 @@ export function SessionProvider({ children }: { children: ReactNode }) {
     },
     [qc],
   );
+
+  const rotate = useCallback(
+    async (current: string): Promise<boolean> => {
+      // Another tab of this browser may have rotated already (the token is shared through storage): take its token.
+      const stored = await tokenStorage.get();
+      if (stored && stored !== current) {
+        setAuthToken(stored);
+        setToken(stored);
+        return true;
+      }
+      try {
+        await signIn(await refreshSession(current));
+      } catch {
+        // No signal or a server restarting: tried again later. A 401 has signed out already (the client's handler).
+        return false;
+      }
+      // Views carry photo and PDF links signed for the closed session: fetch them again under the new one.
+      void qc.invalidateQueries({ predicate: (q) => q.queryKey[0] !== accountKeys.all[0] });
+      return true;
+    },
+    [qc, signIn],
+  );
+  useTokenRotation(token, rotate);
 
   const userId = me.data?.id ?? null;
   const signOut = useCallback(async () => {

@@ -51,6 +51,7 @@ export const bidInputSchema = rejectUnknown(
       .array(yup.string().strict().oneOf([...BID_SERVICES], `Service must be one of: ${BID_SERVICES.join(', ')}`).required())
       .strict()
       .typeError('Services must be a list')
+      .max(BID_SERVICES.length, 'List each service once')
       .test('unique', 'List each service once', (v) => v === undefined || new Set(v).size === v.length)
       .optional(),
     note: paragraphs('Note', 1000).nullable().optional(),

@@ -147,6 +147,7 @@ export const blockInputSchema = rejectUnknown(
       .strict()
       .typeError('Species allowed must be a list')
       .min(1, 'Allow at least one species: sheep or goats')
+      .max(GRAZING_SPECIES.length, 'List each species once')
       .test('unique', 'List each species once', (v) => v === undefined || new Set(v).size === v.length)
       .required('Allow at least one species: sheep or goats'),
     youngPlantings: bool('Young plantings').required('Say whether the block has young trees or vines'),

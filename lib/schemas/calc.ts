@@ -7,6 +7,10 @@ import { rejectUnknown } from './reject-unknown';
 // Every leaf is `.strict()`: a string "12" where a number belongs is refused, never coerced, so the server
 // computes on exactly what was sent. Messages name the field in a user's words. Unknown fields are refused
 // (see reject-unknown.ts).
+//
+// These routes answer without sign-in, so every input whose size grows the work has a ceiling here, checked
+// before the work: the number of samples, moves and fees (by length alone, see bounded.ts), the days between
+// the first move and the end time (head-days are split by local day), and the length of every string.
 
 function num(label: string) {
   return yup.number().strict().typeError(`${label} must be a number`);
@@ -67,7 +71,8 @@ const sampleSchema = yup.lazy((value: unknown) =>
   value !== null && typeof value === 'object' && 'dryGrams' in value ? drySampleSchema : freshSampleSchema,
 );
 
-export const MAX_SAMPLES = 1000;
+/** Clipped quadrats in one estimate: a block is sampled with 10–30; 200 is generous. */
+export const MAX_SAMPLES = 200;
 
 export const forageRequestSchema = rejectUnknown(
   yup.object({
@@ -75,6 +80,8 @@ export const forageRequestSchema = rejectUnknown(
       .moreThan(0, 'Frame area must be more than 0 m²')
       .max(10, 'Frame area must be at most 10 m²')
       .required('Frame area is required'),
+    // Lists are capped by their own max; the server refuses an over-long one by its length before yup looks at an
+    // item (server/lib/http/list-caps.ts), so the cap bounds the work a request can cause.
     samples: yup
       .array(sampleSchema)
       .typeError('Samples must be a list')
@@ -122,7 +129,11 @@ export type CapacityRequest = yup.InferType<typeof capacityRequestSchema>;
 
 // ——— POST /api/calc/head-days ———
 
-export const MAX_MOVES = 10_000;
+/** Moves in one head-day count: a mob moved in and out every day for a year fits (730). */
+export const MAX_MOVES = 1_000;
+/** Days from the first move to the end time: the count is split by local day, so the span is the work. */
+export const MAX_SPAN_DAYS = 400;
+const DAY_MS = 86_400_000;
 
 const moveSchema = rejectUnknown(
   yup
@@ -178,11 +189,19 @@ export const headDaysRequestSchema = rejectUnknown(
       .test('after-last-move', 'End time must not be before the last move', function (until) {
         const end = parseIsoInstant(until);
         const moves: unknown = this.parent?.moves;
-        if (end === null || !Array.isArray(moves)) return true;
+        if (end === null || !Array.isArray(moves) || moves.length > MAX_MOVES) return true;
         const times = moves.map((m: { at?: unknown } | null) => parseIsoInstant(m?.at)).filter((t): t is number => t !== null);
         return times.length === 0 || end >= Math.max(...times);
+      })
+      .test('span', `End time must be at most ${MAX_SPAN_DAYS} days after the first move`, function (until) {
+        const end = parseIsoInstant(until);
+        const moves: unknown = this.parent?.moves;
+        if (end === null || !Array.isArray(moves) || moves.length > MAX_MOVES) return true;
+        const first = Math.min(...moves.map((m: { at?: unknown } | null) => parseIsoInstant(m?.at) ?? Number.POSITIVE_INFINITY));
+        return !Number.isFinite(first) || end - first <= MAX_SPAN_DAYS * DAY_MS;
       }),
     timeZone: str('Time zone')
+      .max(64, 'Time zone must be an IANA name such as America/Los_Angeles')
       .optional()
       .test('iana-zone', 'Time zone must be an IANA name such as America/Los_Angeles', (v) => v === undefined || isValidTimeZone(v)),
   }),

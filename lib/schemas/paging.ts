@@ -13,10 +13,16 @@ export function queryNumber(label: string) {
     .typeError(`${label} must be a number`);
 }
 
-/** `page` (from 1) and `pageSize` (1 to `maxPageSize`), both optional. */
+/**
+ * The highest page any list serves. Far past every list's end, and low enough that page × page size stays a
+ * whole number the database takes as an offset (page 99999999999999999999 made an offset SQLite could not read: a 500).
+ */
+export const MAX_PAGE = 100_000;
+
+/** `page` (1 to MAX_PAGE) and `pageSize` (1 to `maxPageSize`), both optional. */
 export function pageFields(maxPageSize: number) {
   return {
-    page: queryNumber('Page').integer('Page must be a whole number').min(1, 'Page must be 1 or more').optional(),
+    page: queryNumber('Page').integer('Page must be a whole number').min(1, 'Page must be 1 or more').max(MAX_PAGE, `Page must be at most ${MAX_PAGE}`).optional(),
     pageSize: queryNumber('Page size')
       .integer('Page size must be a whole number')
       .min(1, 'Page size must be at least 1')

@@ -58,7 +58,7 @@ async function alone(n, fn) {
   return percentiles(times);
 }
 
-// ——— the same statements, straight on SQLite ———
+// ——— the same statements, straight on the database ———
 
 /**
  * The SQL one call of a service makes, captured through TypeORM's logger in this process (the same compiled
@@ -110,6 +110,21 @@ function ormClock() {
   };
 }
 
+/** p50 of replaying `statements` on PostgreSQL with a pg client of its own (the driver TypeORM uses, without TypeORM). */
+async function replayPostgres(client, statements, n = 300) {
+  const run = async () => {
+    for (const [sql, params] of statements) await client.query(sql, params);
+  };
+  if (n > 1) await run();
+  const times = [];
+  for (let i = 0; i < n; i++) {
+    const s = performance.now();
+    await run();
+    times.push(performance.now() - s);
+  }
+  return percentiles(times);
+}
+
 /** p50 of replaying `statements` with better-sqlite3 directly (prepared once, as TypeORM's statement cache does). */
 const preparedCache = new WeakMap();
 function replay(db, statements, n = 300) {
@@ -134,7 +149,11 @@ const dayKey = (ms) => new Date(ms).toISOString().slice(0, 10);
 const count = (n) => n.toLocaleString('en-US');
 const PDF_RUNS = 12;
 
-export async function benchLoad(row) {
+/**
+ * The season's load figures on one engine: SQLite in a throw-away DATA_DIR (the default), or PostgreSQL when
+ * `databaseUrl` names an empty database (npm run bench -- --engines sqlite,postgres makes one on a throw-away cluster).
+ */
+export async function benchLoad(row, { databaseUrl = null } = {}) {
   const misses = [];
   const budget = (what, figure, ok, rule) => {
     row(what, `${figure}   [${rule}: ${ok ? 'ok' : 'MISSED'}]`);
@@ -145,16 +164,16 @@ export async function benchLoad(row) {
   let server;
   try {
     const s0 = performance.now();
-    const dbFile = path.join(dataDir, 'fieldfold.sqlite');
+    const dbFile = databaseUrl ?? path.join(dataDir, 'fieldfold.sqlite');
     const season = await seedSeason(dbFile, dataDir);
     const n = season.counts;
     row(
-      'season seeded (builders straight into SQLite, sign-off and invoices through the services)',
+      'season seeded (builders straight into the database, sign-off and invoices through the services)',
       `${count(n.openBlocks)} open blocks, ${count(n.bids)} bids, ${count(n.contracts)} contracts (${Object.entries(n.byStatus).map(([k, v]) => `${v} ${k}`).join(', ')}), ${count(n.logEntries)} log entries, ${count(n.invoices)} invoices (${n.paid} paid; ${n.growerInvoices} to the measured grower) in ${((performance.now() - s0) / 1000).toFixed(1)} s`,
     );
 
     const port = await freePort();
-    server = await startServer({ PORT: String(port), HOST: '127.0.0.1', DATA_DIR: dataDir, NODE_ENV: 'production', SEED_DEMO: 'false' }, { quiet: true });
+    server = await startServer({ PORT: String(port), HOST: '127.0.0.1', DATA_DIR: dataDir, NODE_ENV: 'production', SEED_DEMO: 'false', ...(databaseUrl ? { DATABASE_URL: databaseUrl } : {}) }, { quiet: true });
     const base = `http://127.0.0.1:${port}`;
     const login = async (email) => {
       const res = await fetch(`${base}/api/auth/login`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ email, password: PASSWORD }) });
@@ -176,10 +195,20 @@ export async function benchLoad(row) {
     const { grazingLogPdf, grazingLogPdfData } = require(path.join(root, 'build/server/modules/contracts/contract-documents.js'));
     const { Account } = require(path.join(root, 'build/server/modules/accounts/account.entity.js'));
     const { Contract } = require(path.join(root, 'build/server/modules/contracts/contract.entity.js'));
-    const Database = require('better-sqlite3');
     const ds = await openDatabase(dbFile);
-    const raw = new Database(dbFile, { readonly: true });
-    registerSqlFunctions(raw);
+    let raw;
+    let replayRaw;
+    if (databaseUrl) {
+      const { Client } = require('pg');
+      raw = new Client({ connectionString: databaseUrl });
+      await raw.connect();
+      replayRaw = (statements) => replayPostgres(raw, statements, 1);
+    } else {
+      const Database = require('better-sqlite3');
+      raw = new Database(dbFile, { readonly: true });
+      registerSqlFunctions(raw);
+      replayRaw = async (statements) => replay(raw, statements, 1);
+    }
     const ctx = serviceContext({
       dataSource: ds,
       tokens: { secret: 'bench-only-secret-long-enough-to-sign', ttl: '1h' },
@@ -253,7 +282,7 @@ export async function benchLoad(row) {
             await read.call({ ...read.query });
             service.push(performance.now() - s0);
             orm.push(clock.take());
-            sqlTimes.push(replay(raw, statements, 1).p50);
+            sqlTimes.push((await replayRaw(statements)).p50);
           }
         } finally {
           clock.restore();
@@ -261,8 +290,8 @@ export async function benchLoad(row) {
         const [o, sv, sq] = [percentiles(orm.slice(20)), percentiles(service.slice(20)), percentiles(sqlTimes.slice(20))];
         row(`  alone, one request at a time`, `HTTP p50 ${ms(one.p50)} · p95 ${ms(one.p95)}; the service in-process p50 ${ms(sv.p50)}; ${count(JSON.stringify(body).length)} B of JSON`);
         budget(
-          `  in TypeORM vs its ${statements.length} SQL statements straight on SQLite`,
-          `ORM p50 ${ms(o.p50)} · SQL p50 ${ms(sq.p50)} · ${(o.p50 / sq.p50).toFixed(1)}×`,
+          `  in TypeORM vs its SQL statements run by the driver alone`,
+          `ORM p50 ${ms(o.p50)} · SQL p50 ${ms(sq.p50)} (${statements.length} statements) · ${(o.p50 / sq.p50).toFixed(1)}×`,
           o.p50 / sq.p50 < BUDGETS.ormOverRaw,
           `ORM over raw < ${BUDGETS.ormOverRaw}×`,
         );
@@ -312,7 +341,8 @@ export async function benchLoad(row) {
       const storedFirst = await timeGet(pdfUrl(season.finishedMeasured.id));
       row(`  GET …/log.pdf of the finished 120-day stay (stored v${storedFirst.version})`, `first ${ms(storedFirst.t)} (${count(storedFirst.bytes)} B from the file store)`);
     } finally {
-      raw.close();
+      await raw.end?.();
+      raw.close?.();
       await ds.destroy();
     }
 

@@ -2,7 +2,7 @@
 // both parties with 100 000 grazing-log entries, several hundred of them signed off, invoiced and partly paid.
 // Rows are made by the server's own record builders and checks from build/server (validBlockRecord,
 // validBidRecord, termsOfAward, contractRecord, signatureRecord, vetLogEntry, logEntryRow) and written straight
-// into SQLite in one transaction; the sign-off, the invoices and the payments of finished stays then run through
+// into the database in one transaction (prepared statements on SQLite, multi-row INSERTs on PostgreSQL); the sign-off, the invoices and the payments of finished stays then run through
 // the services themselves (signOff, createInvoice, payInvoice) on a clock set to when each happened, with the
 // payments fake in this process — so every row is one the product would have written. People, blocks and figures
 // are invented.
@@ -49,6 +49,7 @@ function inserter(ds, db, entity) {
   };
 }
 
+/** `dbFile` is a SQLite file or a postgres:// URL (an empty database); `dataDir` holds the uploads and documents. */
 export async function seedSeason(dbFile, dataDir) {
   const { openDatabase } = server('db/data-source.js');
   const { validBlockRecord } = server('modules/blocks/blocks.service.js');
@@ -67,7 +68,8 @@ export async function seedSeason(dbFile, dataDir) {
   const bcrypt = require('bcryptjs');
 
   const ds = await openDatabase(dbFile);
-  const db = ds.driver.databaseConnection;
+  const postgres = ds.options.type === 'postgres';
+  const db = postgres ? null : ds.driver.databaseConnection;
   const r = prng(10_000);
   const nowMs = Date.now();
   const today = localDateKey(nowMs, ZONE);
@@ -335,30 +337,44 @@ export async function seedSeason(dbFile, dataDir) {
     return true;
   });
 
-  const insert = { account: inserter(ds, db, Account), block: inserter(ds, db, Block), bid: inserter(ds, db, Bid), contract: inserter(ds, db, Contract), signature: inserter(ds, db, ContractSignature), entry: inserter(ds, db, LogEntry) };
-  db.transaction(() => {
-    accounts.forEach(insert.account);
-    blocks.forEach(insert.block);
-    uniqueBids.forEach(insert.bid);
-    contracts.forEach(insert.contract);
-    signatures.forEach(insert.signature);
-    entries.forEach(insert.entry);
-  })();
+  const tables = [
+    [Account, accounts],
+    [Block, blocks],
+    [Bid, uniqueBids],
+    [Contract, contracts],
+    [ContractSignature, signatures],
+    [LogEntry, entries],
+  ];
+  if (postgres) {
+    // Multi-row INSERTs through TypeORM (its own value conversion), 500 rows a statement, in one transaction.
+    await ds.transaction(async (tx) => {
+      for (const [entity, rows] of tables) {
+        for (let i = 0; i < rows.length; i += 500) await tx.createQueryBuilder().insert().into(entity).values(rows.slice(i, i + 500)).updateEntity(false).execute();
+      }
+    });
+    await ds.query('ANALYZE');
+  } else {
+    const inserts = tables.map(([entity, rows]) => [inserter(ds, db, entity), rows]);
+    db.transaction(() => {
+      for (const [insert, rows] of inserts) rows.forEach(insert);
+    })();
+  }
 
   // ——— finished stays through the services: sign-off, the invoice, the payment ———
   const invoicesMade = await finishStays(ds, dataDir, finished, { localAt, nowMs });
-  db.pragma('wal_checkpoint(TRUNCATE)');
-  const count = (sql) => db.prepare(sql).get().n;
+  if (postgres) await ds.query('ANALYZE');
+  else db.pragma('wal_checkpoint(TRUNCATE)');
+  const count = async (sql, params = []) => Number((await ds.query(sql.replace('?', postgres ? '$1' : '?'), params))[0].n);
   const counts = {
-    openBlocks: count(`SELECT COUNT(*) n FROM blocks WHERE status = 'open'`),
-    bids: count('SELECT COUNT(*) n FROM bids'),
-    contracts: count('SELECT COUNT(*) n FROM contracts'),
-    signatures: count('SELECT COUNT(*) n FROM contract_signatures'),
-    logEntries: count('SELECT COUNT(*) n FROM contract_log_entries'),
-    invoices: count('SELECT COUNT(*) n FROM invoices'),
-    paid: count(`SELECT COUNT(*) n FROM invoices WHERE status = 'paid'`),
-    byStatus: Object.fromEntries(db.prepare('SELECT status, COUNT(*) n FROM contracts GROUP BY status').all().map((x) => [x.status, x.n])),
-    growerInvoices: db.prepare('SELECT COUNT(*) n FROM invoices WHERE grower_id = ?').get(growers[0].id).n,
+    openBlocks: await count(`SELECT COUNT(*) AS n FROM blocks WHERE status = 'open'`),
+    bids: await count('SELECT COUNT(*) AS n FROM bids'),
+    contracts: await count('SELECT COUNT(*) AS n FROM contracts'),
+    signatures: await count('SELECT COUNT(*) AS n FROM contract_signatures'),
+    logEntries: await count('SELECT COUNT(*) AS n FROM contract_log_entries'),
+    invoices: await count('SELECT COUNT(*) AS n FROM invoices'),
+    paid: await count(`SELECT COUNT(*) AS n FROM invoices WHERE status = 'paid'`),
+    byStatus: Object.fromEntries((await ds.query('SELECT status, COUNT(*) AS n FROM contracts GROUP BY status')).map((x) => [x.status, Number(x.n)])),
+    growerInvoices: await count('SELECT COUNT(*) AS n FROM invoices WHERE grower_id = ?', [growers[0].id]),
   };
   if (counts.logEntries < SEASON.logEntries) throw new Error(`bench seed: only ${counts.logEntries} log entries (want ${SEASON.logEntries})`);
   if (invoicesMade !== counts.invoices) throw new Error(`bench seed: ${invoicesMade} invoices made, ${counts.invoices} stored`);

@@ -3,8 +3,9 @@ import { distanceMiles } from '../../lib/geo';
 // The one engine-specific piece of the market's SQL. On SQLite (better-sqlite3) the great-circle distance is
 // lib/geo's own function registered on each connection (prepareDatabase), so SQL and the block view compute
 // the very same float and a block at exactly `maxMiles` is in or out the same way in both. On PostgreSQL the
-// same name will be a SQL function with lib/geo's haversine, created by a migration; callers only ever use
-// distanceMilesSql().
+// same name is a SQL function with lib/geo's haversine step by step, created by a migration
+// (migrations/1766200000000-postgres-functions.ts), equal to lib's to a few units in the last place (the C
+// library's sin is not V8's); callers only ever use distanceMilesSql().
 
 export const DISTANCE_MILES_FN = 'ff_distance_miles';
 

@@ -1,4 +1,5 @@
 import type { MigrationInterface, QueryRunner } from 'typeorm';
+import { sqlDialect } from '../sql-dialect';
 
 // Blocks and their photos. Spray records are a JSON column: they are always read and written with their
 // block, never queried on their own; the one figure that is queried (earliest safe date) has its own column.
@@ -6,23 +7,24 @@ export class Blocks1764700000000 implements MigrationInterface {
   name = 'Blocks1764700000000';
 
   async up(q: QueryRunner): Promise<void> {
+    const t = sqlDialect(q);
     await q.query(`CREATE TABLE "blocks" (
       "id" varchar(36) PRIMARY KEY NOT NULL,
       "owner_id" varchar(36) NOT NULL REFERENCES "accounts"("id"),
       "status" varchar(12) NOT NULL DEFAULT ('draft'),
       "name" varchar(120) NOT NULL,
       "crop" varchar(20) NOT NULL,
-      "acres" real NOT NULL,
+      "acres" ${t.double} NOT NULL,
       "place_name" varchar(120),
-      "latitude" real NOT NULL,
-      "longitude" real NOT NULL,
+      "latitude" ${t.double} NOT NULL,
+      "longitude" ${t.double} NOT NULL,
       "time_zone" varchar(64) NOT NULL,
       "forage_method" varchar(10) NOT NULL,
       "forage_samples" text,
       "forage_height" text,
-      "lb_dm_per_acre" real NOT NULL,
-      "target_utilization_pct" real NOT NULL,
-      "residual_height_in" real,
+      "lb_dm_per_acre" ${t.double} NOT NULL,
+      "target_utilization_pct" ${t.double} NOT NULL,
+      "residual_height_in" ${t.double},
       "window_start" varchar(10) NOT NULL,
       "window_end" varchar(10) NOT NULL,
       "out_by" varchar(10) NOT NULL,
@@ -35,11 +37,11 @@ export class Blocks1764700000000 implements MigrationInterface {
       "species_allowed" varchar(20) NOT NULL,
       "young_plantings" boolean NOT NULL,
       "notes" text,
-      "published_at" datetime,
-      "awarded_at" datetime,
-      "withdrawn_at" datetime,
-      "created_at" datetime NOT NULL DEFAULT (datetime('now')),
-      "updated_at" datetime NOT NULL DEFAULT (datetime('now')),
+      "published_at" ${t.timestamp},
+      "awarded_at" ${t.timestamp},
+      "withdrawn_at" ${t.timestamp},
+      "created_at" ${t.timestamp} NOT NULL DEFAULT (${t.now}),
+      "updated_at" ${t.timestamp} NOT NULL DEFAULT (${t.now}),
       CHECK ("status" IN ('draft', 'open', 'awarded', 'closed', 'withdrawn')),
       CHECK ("acres" > 0),
       CHECK ("lb_dm_per_acre" > 0)
@@ -53,7 +55,7 @@ export class Blocks1764700000000 implements MigrationInterface {
       "mime_type" varchar(20) NOT NULL,
       "size_bytes" integer NOT NULL,
       "position" integer NOT NULL,
-      "created_at" datetime NOT NULL DEFAULT (datetime('now'))
+      "created_at" ${t.timestamp} NOT NULL DEFAULT (${t.now})
     )`);
     await q.query(`CREATE INDEX "idx_block_photos_block" ON "block_photos" ("block_id")`);
   }

@@ -1,9 +1,11 @@
 import type { MigrationInterface, QueryRunner } from 'typeorm';
+import { sqlDialect } from '../sql-dialect';
 
 export class Bids1764700100000 implements MigrationInterface {
   name = 'Bids1764700100000';
 
   async up(q: QueryRunner): Promise<void> {
+    const t = sqlDialect(q);
     await q.query(`CREATE TABLE "bids" (
       "id" varchar(36) PRIMARY KEY NOT NULL,
       "block_id" varchar(36) NOT NULL REFERENCES "blocks"("id"),
@@ -14,14 +16,14 @@ export class Bids1764700100000 implements MigrationInterface {
       "head_count" integer NOT NULL,
       "species" varchar(10) NOT NULL,
       "animal_class" varchar(40) NOT NULL,
-      "body_weight_lb" real NOT NULL,
+      "body_weight_lb" ${t.double} NOT NULL,
       "start_date" varchar(10) NOT NULL,
       "end_date" varchar(10) NOT NULL,
       "services" text NOT NULL DEFAULT ('[]'),
       "note" text,
-      "decided_at" datetime,
-      "created_at" datetime NOT NULL DEFAULT (datetime('now')),
-      "updated_at" datetime NOT NULL DEFAULT (datetime('now')),
+      "decided_at" ${t.timestamp},
+      "created_at" ${t.timestamp} NOT NULL DEFAULT (${t.now}),
+      "updated_at" ${t.timestamp} NOT NULL DEFAULT (${t.now}),
       CHECK ("status" IN ('live', 'accepted', 'declined', 'withdrawn')),
       CHECK ("basis" IN ('head-day', 'acre', 'flat')),
       CHECK ("head_count" > 0),

@@ -1,4 +1,5 @@
 import type { MigrationInterface, QueryRunner } from 'typeorm';
+import { sqlDialect } from '../sql-dialect';
 
 // A contract copies the agreed terms at award time (see lib/schemas/contract.ts). One per block and per
 // bid: the unique keys are the last line of defence against a double award. No CHECK on status: later
@@ -7,6 +8,7 @@ export class Contracts1764700200000 implements MigrationInterface {
   name = 'Contracts1764700200000';
 
   async up(q: QueryRunner): Promise<void> {
+    const t = sqlDialect(q);
     await q.query(`CREATE TABLE "contracts" (
       "id" varchar(36) PRIMARY KEY NOT NULL,
       "block_id" varchar(36) NOT NULL UNIQUE REFERENCES "blocks"("id"),
@@ -19,17 +21,17 @@ export class Contracts1764700200000 implements MigrationInterface {
       "head_count" integer NOT NULL,
       "species" varchar(10) NOT NULL,
       "animal_class" varchar(40) NOT NULL,
-      "body_weight_lb" real NOT NULL,
+      "body_weight_lb" ${t.double} NOT NULL,
       "start_date" varchar(10) NOT NULL,
       "end_date" varchar(10) NOT NULL,
       "out_by" varchar(10) NOT NULL,
       "services" text NOT NULL DEFAULT ('[]'),
-      "acres" real NOT NULL,
-      "lb_dm_per_acre" real NOT NULL,
-      "target_utilization_pct" real NOT NULL,
+      "acres" ${t.double} NOT NULL,
+      "lb_dm_per_acre" ${t.double} NOT NULL,
+      "target_utilization_pct" ${t.double} NOT NULL,
       "time_zone" varchar(64) NOT NULL,
-      "created_at" datetime NOT NULL DEFAULT (datetime('now')),
-      "updated_at" datetime NOT NULL DEFAULT (datetime('now'))
+      "created_at" ${t.timestamp} NOT NULL DEFAULT (${t.now}),
+      "updated_at" ${t.timestamp} NOT NULL DEFAULT (${t.now})
     )`);
     await q.query(`CREATE INDEX "idx_contracts_grower" ON "contracts" ("grower_id")`);
     await q.query(`CREATE INDEX "idx_contracts_grazier" ON "contracts" ("grazier_id")`);

@@ -1,4 +1,5 @@
 import type { MigrationInterface, QueryRunner } from 'typeorm';
+import { sqlDialect } from '../sql-dialect';
 
 // Issue 8: the terms snapshot and its signatures, amendments, the grazing log and sign-off.
 // The once-only rules live here as unique indexes so they hold with several server processes:
@@ -9,16 +10,17 @@ export class ContractSigningLog1765100000000 implements MigrationInterface {
   name = 'ContractSigningLog1765100000000';
 
   async up(q: QueryRunner): Promise<void> {
+    const t = sqlDialect(q);
     // The terms in force: their version, the snapshot (JSON, lib/contract-terms ContractTerms), the canonical
     // text the parties sign and its SHA-256. Rows made before this migration get their snapshot on first use.
     await q.query(`ALTER TABLE "contracts" ADD COLUMN "terms_version" integer NOT NULL DEFAULT (1)`);
     await q.query(`ALTER TABLE "contracts" ADD COLUMN "terms" text`);
     await q.query(`ALTER TABLE "contracts" ADD COLUMN "terms_text" text`);
     await q.query(`ALTER TABLE "contracts" ADD COLUMN "terms_hash" varchar(64)`);
-    await q.query(`ALTER TABLE "contracts" ADD COLUMN "agreed_head_days" real`);
-    await q.query(`ALTER TABLE "contracts" ADD COLUMN "agreed_at" datetime`);
-    await q.query(`ALTER TABLE "contracts" ADD COLUMN "grazing_started_at" datetime`);
-    await q.query(`ALTER TABLE "contracts" ADD COLUMN "cancelled_at" datetime`);
+    await q.query(`ALTER TABLE "contracts" ADD COLUMN "agreed_head_days" ${t.double}`);
+    await q.query(`ALTER TABLE "contracts" ADD COLUMN "agreed_at" ${t.timestamp}`);
+    await q.query(`ALTER TABLE "contracts" ADD COLUMN "grazing_started_at" ${t.timestamp}`);
+    await q.query(`ALTER TABLE "contracts" ADD COLUMN "cancelled_at" ${t.timestamp}`);
     await q.query(`ALTER TABLE "contracts" ADD COLUMN "cancelled_by" varchar(8)`);
     await q.query(`ALTER TABLE "contracts" ADD COLUMN "cancel_reason" text`);
     // Bumped by every change of the contract row; the first statement of a use case on a contract, so it
@@ -42,7 +44,7 @@ export class ContractSigningLog1765100000000 implements MigrationInterface {
       "terms_hash" varchar(64) NOT NULL,
       "ip" varchar(64),
       "user_agent" varchar(400),
-      "signed_at" datetime NOT NULL
+      "signed_at" ${t.timestamp} NOT NULL
     )`);
     await q.query(`CREATE UNIQUE INDEX "uq_signature_once" ON "contract_signatures" ("contract_id", "terms_version", "party")`);
 
@@ -56,12 +58,12 @@ export class ContractSigningLog1765100000000 implements MigrationInterface {
       "reason" text NOT NULL,
       "changes" text NOT NULL,
       "change_lines" text NOT NULL,
-      "agreed_head_days" real,
+      "agreed_head_days" ${t.double},
       "terms" text NOT NULL,
       "terms_text" text NOT NULL,
       "terms_hash" varchar(64) NOT NULL,
-      "created_at" datetime NOT NULL,
-      "decided_at" datetime
+      "created_at" ${t.timestamp} NOT NULL,
+      "decided_at" ${t.timestamp}
     )`);
     await q.query(`CREATE UNIQUE INDEX "uq_amendment_version" ON "contract_amendments" ("contract_id", "version")`);
     await q.query(`CREATE UNIQUE INDEX "uq_amendment_one_waiting" ON "contract_amendments" ("contract_id") WHERE "status" = 'proposed'`);
@@ -76,10 +78,10 @@ export class ContractSigningLog1765100000000 implements MigrationInterface {
       "change" integer,
       "count" integer,
       "paddock" varchar(60),
-      "residual_height_in" real,
-      "taken_pct" real,
-      "trampled_pct" real,
-      "bare_ground_pct" real,
+      "residual_height_in" ${t.double},
+      "taken_pct" ${t.double},
+      "trampled_pct" ${t.double},
+      "bare_ground_pct" ${t.double},
       "water_checked" boolean,
       "fence_checked" boolean,
       "losses" integer,
@@ -87,8 +89,8 @@ export class ContractSigningLog1765100000000 implements MigrationInterface {
       "author" varchar(8) NOT NULL,
       "author_id" varchar(36) NOT NULL REFERENCES "accounts"("id"),
       "flags" text NOT NULL DEFAULT ('[]'),
-      "recorded_at" datetime NOT NULL,
-      "voided_at" datetime,
+      "recorded_at" ${t.timestamp} NOT NULL,
+      "voided_at" ${t.timestamp},
       "void_reason" text
     )`);
     await q.query(`CREATE UNIQUE INDEX "uq_log_entry_client" ON "contract_log_entries" ("contract_id", "client_id")`);
@@ -102,7 +104,7 @@ export class ContractSigningLog1765100000000 implements MigrationInterface {
       "file_name" varchar(60) NOT NULL,
       "mime_type" varchar(20) NOT NULL,
       "size_bytes" integer NOT NULL,
-      "created_at" datetime NOT NULL
+      "created_at" ${t.timestamp} NOT NULL
     )`);
     await q.query(`CREATE INDEX "idx_log_photos_entry" ON "contract_log_photos" ("entry_id")`);
 
@@ -111,18 +113,18 @@ export class ContractSigningLog1765100000000 implements MigrationInterface {
       "contract_id" varchar(36) NOT NULL REFERENCES "contracts"("id"),
       "round" integer NOT NULL,
       "status" varchar(10) NOT NULL,
-      "proposed_head_days" real NOT NULL,
+      "proposed_head_days" ${t.double} NOT NULL,
       "by_day" text NOT NULL,
       "counted_until" varchar(40) NOT NULL,
       "comment" text,
       "grazier_name" varchar(120) NOT NULL,
-      "proposed_at" datetime NOT NULL,
-      "counter_head_days" real,
+      "proposed_at" ${t.timestamp} NOT NULL,
+      "counter_head_days" ${t.double},
       "dispute_comment" text,
-      "disputed_at" datetime,
+      "disputed_at" ${t.timestamp},
       "grower_name" varchar(120),
-      "agreed_head_days" real,
-      "agreed_at" datetime,
+      "agreed_head_days" ${t.double},
+      "agreed_at" ${t.timestamp},
       "agreed_by" varchar(8)
     )`);
     await q.query(`CREATE UNIQUE INDEX "uq_sign_off_round" ON "contract_sign_offs" ("contract_id", "round")`);

@@ -1,4 +1,5 @@
 import type { MigrationInterface, QueryRunner } from 'typeorm';
+import { sqlDialect } from '../sql-dialect';
 
 // Generated PDF records (grazing logs, invoices), one row per stored version. The partial unique indexes
 // are what makes "next version" safe with several server processes: two stores that pick the same number
@@ -8,6 +9,7 @@ export class Documents1765200000000 implements MigrationInterface {
   name = 'Documents1765200000000';
 
   async up(q: QueryRunner): Promise<void> {
+    const t = sqlDialect(q);
     await q.query(`CREATE TABLE "documents" (
       "id" varchar(36) PRIMARY KEY NOT NULL,
       "kind" varchar(20) NOT NULL,
@@ -18,7 +20,7 @@ export class Documents1765200000000 implements MigrationInterface {
       "size_bytes" integer NOT NULL,
       "content_type" varchar(100) NOT NULL,
       "storage_key" varchar(200) NOT NULL UNIQUE,
-      "created_at" datetime NOT NULL DEFAULT (datetime('now'))
+      "created_at" ${t.timestamp} NOT NULL DEFAULT (${t.now})
     )`);
     await q.query(`CREATE UNIQUE INDEX "uq_documents_log_version" ON "documents" ("kind", "contract_id", "version") WHERE "kind" = 'grazing-log'`);
     await q.query(`CREATE UNIQUE INDEX "uq_documents_invoice_version" ON "documents" ("kind", "invoice_id", "version") WHERE "kind" = 'invoice'`);

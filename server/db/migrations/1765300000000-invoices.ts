@@ -1,4 +1,5 @@
 import type { MigrationInterface, QueryRunner } from 'typeorm';
+import { sqlDialect } from '../sql-dialect';
 
 // Invoices (one per contract), each grazier's number counter, the payments API's events (each stored once) and
 // growers' customer records in that API. Their PDFs are rows of the documents table (kind 'invoice'). The unique keys carry the promises: one invoice per contract, no two
@@ -7,6 +8,7 @@ export class Invoices1765300000000 implements MigrationInterface {
   name = 'Invoices1765300000000';
 
   async up(q: QueryRunner): Promise<void> {
+    const t = sqlDialect(q);
     await q.query(`CREATE TABLE "invoices" (
       "id" varchar(36) PRIMARY KEY NOT NULL,
       "contract_id" varchar(36) NOT NULL REFERENCES "contracts"("id"),
@@ -21,7 +23,7 @@ export class Invoices1765300000000 implements MigrationInterface {
       "currency" varchar(3) NOT NULL,
       "basis" varchar(10) NOT NULL,
       "rate" varchar(20) NOT NULL,
-      "quantity" real NOT NULL,
+      "quantity" ${t.double} NOT NULL,
       "lines" text NOT NULL,
       "services" text NOT NULL,
       "subtotal_cents" integer NOT NULL CHECK ("subtotal_cents" >= 0),

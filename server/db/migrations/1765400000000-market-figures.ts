@@ -1,4 +1,5 @@
 import type { MigrationInterface, QueryRunner } from 'typeorm';
+import { sqlDialect } from '../sql-dialect';
 import { allowableForage } from '../../../lib/grazing/capacity';
 import { grazeSpan } from '../../../lib/grazing/graze-window';
 import type { SprayRecord } from '../../../lib/grazing/safety';
@@ -35,10 +36,11 @@ export class MarketFigures1765400000000 implements MigrationInterface {
   name = 'MarketFigures1765400000000';
 
   async up(q: QueryRunner): Promise<void> {
+    const t = sqlDialect(q);
     // SQLite adds a NOT NULL column only with a default; every row is filled below before anything reads it.
     await q.query(`ALTER TABLE "blocks" ADD COLUMN "graze_from" varchar(10) NOT NULL DEFAULT ('')`);
     await q.query(`ALTER TABLE "blocks" ADD COLUMN "graze_until" varchar(10) NOT NULL DEFAULT ('')`);
-    await q.query(`ALTER TABLE "blocks" ADD COLUMN "allowable_lb" real NOT NULL DEFAULT (0)`);
+    await q.query(`ALTER TABLE "blocks" ADD COLUMN "allowable_lb" ${t.double} NOT NULL DEFAULT (0)`);
     const rows: Array<Record<string, string | number>> = await q.query(
       `SELECT "id", "window_start", "window_end", "out_by", "spray_records", "acres", "lb_dm_per_acre", "target_utilization_pct" FROM "blocks"`,
     );
@@ -51,7 +53,7 @@ export class MarketFigures1765400000000 implements MigrationInterface {
         speciesAllowed: [],
       });
       const { allowableLb } = allowableForage({ acres: Number(r.acres), lbDmPerAcre: Number(r.lb_dm_per_acre), utilizationPct: Number(r.target_utilization_pct) });
-      await q.query(`UPDATE "blocks" SET "graze_from" = ?, "graze_until" = ?, "allowable_lb" = ? WHERE "id" = ?`, [span.from, span.until, allowableLb, r.id]);
+      await q.query(`UPDATE "blocks" SET "graze_from" = ${t.param(1)}, "graze_until" = ${t.param(2)}, "allowable_lb" = ${t.param(3)} WHERE "id" = ${t.param(4)}`, [span.from, span.until, allowableLb, r.id]);
     }
 
     await q.query(`DROP INDEX "idx_blocks_status"`);

@@ -28,10 +28,39 @@ function serialisesWrites(ds: DataSource): boolean {
   return ds.options.type === 'better-sqlite3';
 }
 
+/**
+ * Conflicts the database resolved by rolling one transaction back whole, so that running it again is safe:
+ * PostgreSQL's deadlock_detected, and SQLite's busy answers when several processes share the file (a transaction
+ * that read before another process committed may not then write: SQLite says "database is locked" at once,
+ * without waiting out the busy timeout).
+ */
+const RETRYABLE = new Set(['40P01', 'SQLITE_BUSY', 'SQLITE_BUSY_SNAPSHOT', 'SQLITE_BUSY_RECOVERY']);
+const RETRIES = 8;
+
+function isRetryableConflict(err: unknown): boolean {
+  const e = err as { code?: string; driverError?: { code?: string } } | null;
+  return RETRYABLE.has(e?.driverError?.code ?? e?.code ?? '');
+}
+
+/** The work in its own transaction, run again (a few times, after a short random pause) if the database refused it. */
+async function withConflictRetry<T>(run: () => Promise<T>): Promise<T> {
+  for (let attempt = 1; ; attempt++) {
+    try {
+      return await run();
+    } catch (err) {
+      if (!isRetryableConflict(err) || attempt > RETRIES) throw err;
+      await new Promise((r) => setTimeout(r, Math.random() * 5 * 2 ** Math.min(attempt, 6)));
+    }
+  }
+}
+
 export function inTransaction<T>(ds: DataSource, work: (tx: EntityManager) => Promise<T>): Promise<T> {
   // A nested call on SQLite would queue behind the transaction that is waiting for it: a silent deadlock.
   if (inside.getStore() === ds) return Promise.reject(new NestedTransactionError());
-  const body = () => inside.run(ds, () => ds.transaction(work));
+  // Use cases take their rows in a fixed order (the contract or block first) so they queue rather than deadlock;
+  // the retry covers an order not foreseen, and SQLite shared by several processes. A transaction body has no
+  // effect outside the database (STYLE.md 13), so running it again changes nothing twice.
+  const body = () => withConflictRetry(() => inside.run(ds, () => ds.transaction(work)));
   if (!serialisesWrites(ds)) return body();
   const previous = queues.get(ds) ?? Promise.resolve();
   const run = previous.then(body, body);

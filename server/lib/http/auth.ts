@@ -10,6 +10,20 @@ import type { Role } from '../../../lib/roles';
 export interface TokenClaims {
   sub: string;
   sid: string;
+  /** Set only on signed links (photo, invoice PDF): such a token is never a sign-in. */
+  typ?: string;
+}
+
+/** Whom a signed link is for: the account, and the sign-in session it was issued under (none: the link never opens). */
+export interface LinkViewer {
+  id: string;
+  sessionId?: string | null;
+}
+
+/** True while the session is open: not signed out, not rotated away, not expired. */
+export async function sessionIsOpen(ds: DataSource, accountId: string, sessionId: string, now: () => number): Promise<boolean> {
+  const session = await ds.getRepository(Session).findOneBy({ id: sessionId, accountId });
+  return !!session && session.expiresAt.getTime() >= now();
 }
 
 declare global {
@@ -52,10 +66,13 @@ export function requireAuth(ds: DataSource, secret: string, now: () => number = 
       } catch {
         throw AppError.unauthenticated('Your sign-in has expired or is not valid. Sign in again.');
       }
-      // Other tokens signed with the same secret (photo access links) carry no session: never a sign-in.
-      if (typeof claims.sid !== 'string' || typeof claims.sub !== 'string') throw AppError.unauthenticated('Your sign-in is not valid. Sign in again.');
+      // Other tokens signed with the same secret (photo and PDF links) carry a `typ` and no `sid`: never a sign-in.
+      if (claims.typ !== undefined || typeof claims.sid !== 'string' || typeof claims.sub !== 'string') {
+        throw AppError.unauthenticated('Your sign-in is not valid. Sign in again.');
+      }
       const account = await sessionAccount.one(ds.manager, { sid: claims.sid, sub: claims.sub, now: new Date(now()) });
       if (!account) throw AppError.unauthenticated('You have been signed out. Sign in again.');
+      account.sessionId = claims.sid;
       req.account = account;
       req.sessionId = claims.sid;
       next();
@@ -80,25 +97,40 @@ export function signedIn(req: Express.Request): Account {
   return req.account;
 }
 
+export interface AccessLinkCheck {
+  ds: DataSource;
+  now: () => number;
+  /** requireAuth, for a request that sends its bearer token instead. */
+  auth: RequestHandler;
+  /** The link's viewer and session when it is a valid, unexpired link for exactly this record; null otherwise. */
+  verify: (access: string, req: Request) => { viewerId: string; sessionId: string } | null;
+  invalidMessage: string;
+}
+
 /**
  * For links an `<img>` or a download opens, which cannot send a header: the bearer token as usual, or a signed
- * `access` query parameter that `verify` turns into the viewer's account id (null when it is expired, forged or
- * for another record). Either way the viewer's id is left in `res.locals.viewerId` for the route's own policy.
+ * `access` query parameter naming the viewer and the sign-in session it was made for. A link opens only while
+ * that session is open, so signing out (or rotating the token) ends every link handed out under it. Either way
+ * the viewer's id is left in `res.locals.viewerId` for the route's own policy.
  */
-export function bearerOrAccessLink(auth: RequestHandler, verify: (access: string, req: Request) => string | null, invalidMessage: string): RequestHandler {
-  return (req, res, next) => {
+export function bearerOrAccessLink(check: AccessLinkCheck): RequestHandler {
+  return async (req, res, next) => {
     const access = req.query.access;
     if (access === undefined) {
-      return auth(req, res, (err?: unknown) => {
+      return check.auth(req, res, (err?: unknown) => {
         if (err) return next(err);
         res.locals.viewerId = signedIn(req).id;
         next();
       });
     }
-    if (typeof access !== 'string') return next(AppError.badRequest('Give one access token', { access: 'Give one access token' }));
-    const viewerId = verify(access, req);
-    if (!viewerId) return next(AppError.unauthenticated(invalidMessage));
-    res.locals.viewerId = viewerId;
-    next();
+    try {
+      if (typeof access !== 'string') throw AppError.badRequest('Give one access token', { access: 'Give one access token' });
+      const link = check.verify(access, req);
+      if (!link || !(await sessionIsOpen(check.ds, link.viewerId, link.sessionId, check.now))) throw AppError.unauthenticated(check.invalidMessage);
+      res.locals.viewerId = link.viewerId;
+      next();
+    } catch (err) {
+      next(err);
+    }
   };
 }

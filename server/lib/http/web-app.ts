@@ -1,3 +1,4 @@
+import crypto from 'node:crypto';
 import fs from 'node:fs';
 import path from 'node:path';
 import compression from 'compression';
@@ -17,12 +18,16 @@ import { matchWebRoute, webRouteTable, type WebRouteTable } from './web-routes';
 const HASHED_DIRS = ['_expo', 'assets'];
 const PRECOMPRESSED: expressStaticGzip.ExpressStaticGzipOptions = { enableBrotli: true, orderPreference: ['br', 'gzip'], index: false };
 
-/** Put first: compresses dynamic responses and keeps every /api answer out of caches. */
+/**
+ * Put first: compresses dynamic responses and keeps every /api answer out of every cache, the browser's too
+ * (a signed-in answer must not be read back from disk after sign-out). Set before any route runs, so errors,
+ * 404s and 429s carry it as well; only a route that sends a file (a photo, a PDF) sets its own.
+ */
 export function compressAndCache(): RequestHandler[] {
   return [
     compression(),
     (req, res, next) => {
-      if (req.path.startsWith('/api/')) res.set('Cache-Control', 'no-store');
+      if (req.path === '/api' || req.path.startsWith('/api/')) res.set('Cache-Control', 'no-store');
       next();
     },
   ];
@@ -69,6 +74,24 @@ function routeHtml(table: WebRouteTable, serve: RequestHandler): RequestHandler 
     req.url = `/${file.split('/').map(encodeURIComponent).join('/')}${query}`;
     serve(req, res, next);
   };
+}
+
+const INLINE_SCRIPT = /<script\b(?![^>]*\bsrc\s*=)[^>]*>([\s\S]*?)<\/script>/gi;
+
+/**
+ * The content-security policy's `'sha256-…'` source for each distinct inline script in the export's pages, read
+ * once at start (the export is fixed while the process runs). A build that adds one is covered without a
+ * nonce, which static HTML could not carry.
+ */
+export function webAppInlineScriptHashes(webDir: string): string[] {
+  const root = path.resolve(webDir);
+  const hashes = new Set<string>();
+  for (const file of listFiles(root).filter((f) => f.endsWith('.html'))) {
+    for (const m of fs.readFileSync(path.join(root, file), 'utf8').matchAll(INLINE_SCRIPT)) {
+      if (m[1].trim() !== '') hashes.add(`'sha256-${crypto.createHash('sha256').update(m[1], 'utf8').digest('base64')}'`);
+    }
+  }
+  return [...hashes].sort();
 }
 
 function listFiles(dir: string, prefix = ''): string[] {

@@ -7,6 +7,8 @@ export interface AppLinks {
   contract(id: string): string;
   contractLog(id: string): string;
   invoice(id: string): string;
+  /** The screen that sets a new password with a mailed reset token. */
+  resetPassword(token: string): string;
   /** Any path of the app ('/account'). */
   path(p: string): string;
 }
@@ -22,6 +24,7 @@ export function appLinks(publicUrl: string): AppLinks {
     contract: (id) => at(`/contracts/${encodeURIComponent(id)}`),
     contractLog: (id) => at(`/contracts/${encodeURIComponent(id)}/log`),
     invoice: (id) => at(`/invoices/${encodeURIComponent(id)}`),
+    resetPassword: (token) => at(`/reset-password?token=${encodeURIComponent(token)}`),
     path: (p) => at(p.startsWith('/') ? p : `/${p}`),
   };
 }

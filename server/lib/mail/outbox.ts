@@ -1,5 +1,5 @@
 import crypto from 'node:crypto';
-import { In, LessThanOrEqual, type DataSource, type EntityManager } from 'typeorm';
+import { In, type DataSource, type EntityManager } from 'typeorm';
 import { inTransaction } from '../db/transaction';
 import type { MailMessage, MailPort } from './mail-port';
 import { OutboxMessage } from './outbox.entity';
@@ -7,8 +7,8 @@ import { OutboxMessage } from './outbox.entity';
 // The durable mail outbox (STYLE.md principle 13). A use case calls `queueMail(tx, …)` inside its own write
 // transaction, so the message exists exactly when the state change it reports was committed. After the
 // commit the use case calls `outbox.kick()`; the sender (also on a timer, for retries and for messages
-// another process queued) claims due rows one at a time with a conditional UPDATE — a lease, so several
-// processes never send one row at once — hands each to the mail adapter, and marks it sent.
+// another process queued) claims due rows one at a time (claimNext: a lease set by a conditional UPDATE, so several
+// processes never send one row at once) — hands each to the mail adapter, and marks it sent.
 //
 // Delivery is at least once: if the process dies after the SMTP server accepted a message and before the
 // row was marked sent, the lease runs out and the message goes again. The alternative (mark first, send
@@ -100,40 +100,62 @@ export class OutboxSender implements MailOutbox {
 
   private async sendDue(): Promise<number> {
     const now = this.now();
-    const due = await this.ds.manager.find(OutboxMessage, {
-      where: { status: 'pending', nextAttemptAt: LessThanOrEqual(now) },
-      order: { nextAttemptAt: 'ASC', createdAt: 'ASC' },
-      take: this.batch,
-    });
     let sent = 0;
-    for (const row of due) {
-      if (row.claimedUntil !== null && row.claimedUntil > now) continue;
-      if (!(await this.claim(row, now))) continue;
+    for (let n = 0; n < this.batch; n++) {
+      const row = await this.claimNext(now);
+      if (row === null) break;
+      if (row === 'lost') continue;
       try {
         await this.mail.send({ id: row.id, to: row.to, subject: row.subject, text: row.text, html: row.html ?? undefined });
       } catch (err) {
         await this.failed(row, err);
         continue;
       }
-      await inTransaction(this.ds, (tx) => tx.update(OutboxMessage, { id: row.id }, { status: 'sent', sentAt: this.now(), claimedUntil: null, lastError: null }));
+      // Only while the lease is still ours (`claimedUntil` is the one this sender set): a sender whose send outlived
+      // its lease has been overtaken by another, and its late answer must not touch that one's claim.
+      // The body goes once it is sent: the outbox is a queue, not an archive, and some bodies carry a secret
+      // (a password-reset link) that must not outlive its sending in the database. To, subject and time stay.
+      await inTransaction(this.ds, (tx) =>
+        tx.update(OutboxMessage, { id: row.id, claimedUntil: row.claimedUntil! }, { status: 'sent', sentAt: this.now(), claimedUntil: null, lastError: null, text: '', html: null }),
+      );
       sent += 1;
     }
     return sent;
   }
 
-  /** A conditional UPDATE: only one sender (of any process) wins the row until its lease runs out. */
-  private async claim(row: OutboxMessage, now: number): Promise<boolean> {
-    const res = await inTransaction(this.ds, (tx) =>
-      tx
+  /**
+   * Takes the next due message for this sender: null when none is due, 'lost' when another sender took it first.
+   * The claim is a lease (claimed_until) set by a conditional UPDATE, because the send runs after the commit and
+   * may outlive a connection: only one sender, of any process, wins a row until its lease runs out, and one that
+   * died releases it by time. On PostgreSQL the row is first picked with FOR UPDATE SKIP LOCKED, so senders in
+   * several processes take different rows at once instead of queueing on the same one; on SQLite (one writer at a
+   * time) the conditional UPDATE alone decides.
+   */
+  private async claimNext(now: number): Promise<OutboxMessage | 'lost' | null> {
+    const lease = now + OUTBOX_LEASE_MS;
+    return inTransaction(this.ds, async (tx) => {
+      const pick = tx
+        .createQueryBuilder(OutboxMessage, 'm')
+        .where('m.status = :pending AND m.next_attempt_at <= :now', { pending: 'pending', now })
+        .andWhere('(m.claimed_until IS NULL OR m.claimed_until <= :now)', { now })
+        .orderBy('m.next_attempt_at', 'ASC')
+        .addOrderBy('m.created_at', 'ASC')
+        .limit(1);
+      if (tx.connection.options.type === 'postgres') pick.setLock('pessimistic_write').setOnLocked('skip_locked');
+      const row = await pick.getOne();
+      if (!row) return null;
+      const res = await tx
         .createQueryBuilder()
         .update(OutboxMessage)
-        .set({ claimedUntil: now + OUTBOX_LEASE_MS, attempts: () => 'attempts + 1' })
+        .set({ claimedUntil: lease, attempts: () => 'attempts + 1' })
         .where('id = :id AND status = :pending', { id: row.id, pending: 'pending' })
         .andWhere('(claimed_until IS NULL OR claimed_until <= :now)', { now })
-        .execute(),
-    );
-    if (res.affected === 1) row.attempts += 1;
-    return res.affected === 1;
+        .execute();
+      if (res.affected !== 1) return 'lost';
+      row.attempts += 1;
+      row.claimedUntil = lease;
+      return row;
+    });
   }
 
   private async failed(row: OutboxMessage, err: unknown): Promise<void> {
@@ -141,7 +163,7 @@ export class OutboxSender implements MailOutbox {
     const delay = OUTBOX_BACKOFF_MS[Math.min(row.attempts - 1, OUTBOX_BACKOFF_MS.length - 1)];
     // Subject only in the log: addresses and bodies stay out of logs.
     this.log(`[mail] "${row.subject.replace(/[\r\n\t]+/g, ' ')}" not sent (attempt ${row.attempts}), retrying in ${Math.round(delay / 1000)} s: ${reason}`);
-    await inTransaction(this.ds, (tx) => tx.update(OutboxMessage, { id: row.id }, { claimedUntil: null, nextAttemptAt: this.now() + delay, lastError: reason }));
+    await inTransaction(this.ds, (tx) => tx.update(OutboxMessage, { id: row.id, claimedUntil: row.claimedUntil! }, { claimedUntil: null, nextAttemptAt: this.now() + delay, lastError: reason }));
   }
 }
 

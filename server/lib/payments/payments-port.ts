@@ -101,3 +101,11 @@ export class WebhookVerificationError extends Error {
     this.name = 'WebhookVerificationError';
   }
 }
+
+/** A webhook that verified but is not an event in the shape the payments API sends (nothing is applied). */
+export class WebhookEventError extends WebhookVerificationError {
+  constructor(message: string) {
+    super(message);
+    this.name = 'WebhookEventError';
+  }
+}

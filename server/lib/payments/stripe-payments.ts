@@ -3,6 +3,7 @@ import type { PaymentsConfig } from '../../config/env';
 import type { TestPaymentMethodId } from '../../../lib/payments';
 import {
   PaymentsUnavailableError,
+  WebhookEventError,
   WebhookVerificationError,
   type CustomerInput,
   type DraftInvoiceInput,
@@ -131,6 +132,8 @@ export class StripePayments implements PaymentsPort {
     } catch (err) {
       throw new WebhookVerificationError(err instanceof Error ? err.message : String(err));
     }
+    // The signature says who sent the bytes, not that they make an event: check the members read below.
+    assertEventShape(event);
     const object = event.data.object as { object?: string };
     return {
       id: event.id,
@@ -139,6 +142,33 @@ export class StripePayments implements PaymentsPort {
       invoice: object.object === 'invoice' ? toProviderInvoice(object as Stripe.Invoice) : null,
     };
   }
+}
+
+const isRecord = (v: unknown): v is Record<string, unknown> => v !== null && typeof v === 'object' && !Array.isArray(v);
+/** Unix seconds from 1970 to 2999: what a timestamp of the API can be (beyond it a Date cannot be made). */
+const isUnixSeconds = (v: unknown): v is number => Number.isSafeInteger(v) && (v as number) >= 0 && (v as number) < 32_503_680_000;
+const isCents = (v: unknown) => Number.isSafeInteger(v);
+const INVOICE_STATUSES: ReadonlyArray<string | null | undefined> = ['draft', 'open', 'paid', 'void', 'uncollectible', null, undefined];
+
+/** Throws WebhookEventError unless every member verifyWebhook and toProviderInvoice read has the API's type. */
+function assertEventShape(event: unknown): asserts event is Stripe.Event {
+  const bad = (what: string) => new WebhookEventError(`the event's ${what} is missing or not of the payments API's type`);
+  if (!isRecord(event)) throw new WebhookEventError('the event is not a JSON object');
+  if (typeof event.id !== 'string' || event.id === '' || event.id.length > 255) throw bad('id');
+  if (typeof event.type !== 'string' || event.type === '' || event.type.length > 255) throw bad('type');
+  if (!isUnixSeconds(event.created)) throw bad('created');
+  if (!isRecord(event.data) || !isRecord(event.data.object)) throw bad('data.object');
+  const inv = event.data.object;
+  if (inv.object !== 'invoice') return;
+  if (typeof inv.id !== 'string' || inv.id === '') throw bad('invoice id');
+  if (!(inv.customer == null || typeof inv.customer === 'string' || (isRecord(inv.customer) && typeof inv.customer.id === 'string'))) throw bad('invoice customer');
+  if (!(inv.number == null || typeof inv.number === 'string')) throw bad('invoice number');
+  if (!INVOICE_STATUSES.includes(inv.status as string | null | undefined)) throw bad('invoice status');
+  for (const k of ['total', 'amount_due', 'amount_paid']) if (!isCents(inv[k])) throw bad(`invoice ${k}`);
+  const transitions = inv.status_transitions;
+  if (!(transitions == null || (isRecord(transitions) && (transitions.paid_at == null || isUnixSeconds(transitions.paid_at))))) throw bad('invoice status_transitions.paid_at');
+  const metadata = inv.metadata;
+  if (!(metadata == null || (isRecord(metadata) && (metadata[META_INVOICE] == null || typeof metadata[META_INVOICE] === 'string')))) throw bad('invoice metadata');
 }
 
 function toProviderInvoice(inv: Stripe.Invoice): ProviderInvoice {

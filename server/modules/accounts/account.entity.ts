@@ -1,6 +1,7 @@
 import { Column, CreateDateColumn, Entity, PrimaryColumn, UpdateDateColumn } from 'typeorm';
 
-// Every @Column names its type: tsx/esbuild emit no decorator metadata (shared/STACK.md).
+// Every @Column names its type: tsx/esbuild emit no decorator metadata (shared/STACK.md). A point in time is
+// `type: Date`: datetime text on SQLite, timestamptz on PostgreSQL (server/db/sql-dialect.ts).
 @Entity('accounts')
 export class Account {
   @PrimaryColumn('varchar', { length: 36 })
@@ -49,11 +50,17 @@ export class Account {
   @Column('real', { name: 'flock_body_weight_lb', nullable: true })
   flockBodyWeightLb: number | null;
 
-  @CreateDateColumn({ name: 'created_at', type: 'datetime' })
+  @CreateDateColumn({ name: 'created_at', type: Date })
   createdAt: Date;
 
-  @UpdateDateColumn({ name: 'updated_at', type: 'datetime' })
+  @UpdateDateColumn({ name: 'updated_at', type: Date })
   updatedAt: Date;
+
+  /**
+   * Not a column: the sign-in session this copy of the account was loaded for (requireAuth sets it), so the
+   * photo and PDF links signed for this viewer name that session and stop working when it is closed.
+   */
+  sessionId?: string;
 }
 
 /** One row per signed-in device; signing out deletes it, so a stolen token dies with the session. */
@@ -65,9 +72,35 @@ export class Session {
   @Column('varchar', { name: 'account_id', length: 36 })
   accountId: string;
 
-  @CreateDateColumn({ name: 'created_at', type: 'datetime' })
+  @CreateDateColumn({ name: 'created_at', type: Date })
   createdAt: Date;
 
-  @Column('datetime', { name: 'expires_at' })
+  @Column({ type: Date, name: 'expires_at' })
   expiresAt: Date;
+}
+
+const epochMs = { to: (v: number) => v, from: (v: string | number) => Number(v) };
+const epochMsOrNull = { to: (v: number | null) => v, from: (v: string | number | null) => (v == null ? null : Number(v)) };
+
+/** A mailed password-reset link: the SHA-256 of its token, never the token; used once, before it expires. */
+@Entity('password_resets')
+export class PasswordReset {
+  @PrimaryColumn('varchar', { length: 36 })
+  id: string;
+
+  @Column('varchar', { name: 'account_id', length: 36 })
+  accountId: string;
+
+  /** Hex SHA-256 of the token in the link. */
+  @Column('varchar', { name: 'token_hash', length: 64, unique: true })
+  tokenHash: string;
+
+  @Column('bigint', { name: 'expires_at', transformer: epochMs })
+  expiresAt: number;
+
+  @Column('bigint', { name: 'used_at', nullable: true, transformer: epochMsOrNull })
+  usedAt: number | null;
+
+  @Column('bigint', { name: 'created_at', transformer: epochMs })
+  createdAt: number;
 }

@@ -1,13 +1,14 @@
 import crypto from 'node:crypto';
 import bcrypt from 'bcryptjs';
 import jwt from 'jsonwebtoken';
-import type { DataSource } from 'typeorm';
+import type { DataSource, EntityManager } from 'typeorm';
 import { AppError } from '../../lib/errors/app-error';
 import { accountRoles } from '../../lib/http/auth';
 import { tokenKey } from '../../lib/http/token-key';
 import { Account, Session } from './account.entity';
 import { inTransaction } from '../../lib/db/transaction';
-import type { AccountView, LoginInput, ProfileInput, RegisterInput } from '../../../lib/schemas/account';
+import { isUniqueViolation } from '../../lib/db/unique-violation';
+import { PASSWORD_MAX_BYTES, PASSWORD_TOO_LONG, utf8Length, type AccountView, type LoginInput, type ProfileInput, type RegisterInput } from '../../../lib/schemas/account';
 import type { Role } from '../../../lib/roles';
 
 export interface TokenSettings {
@@ -47,14 +48,12 @@ function ttlMs(ttl: string): number {
   return n * { s: 1_000, m: 60_000, h: 3_600_000, d: 86_400_000 }[unit as 's' | 'm' | 'h' | 'd'];
 }
 
-async function openSession(ds: DataSource, account: Account, tokens: TokenSettings) {
-  const session = ds.getRepository(Session).create({
-    id: crypto.randomUUID(),
-    accountId: account.id,
-    expiresAt: new Date((tokens.now ?? Date.now)() + ttlMs(tokens.ttl)),
-  });
-  await inTransaction(ds, (tx) => tx.getRepository(Session).save(session));
-  const token = jwt.sign({ sid: session.id, iat: Math.floor((tokens.now ?? Date.now)() / 1000) }, tokenKey(tokens.secret), {
+/** A new session row and its signed token (the token's `exp` and the row's `expiresAt` are the same instant). */
+async function newSession(tx: EntityManager, account: Account, tokens: TokenSettings) {
+  const now = (tokens.now ?? Date.now)();
+  const session = tx.getRepository(Session).create({ id: crypto.randomUUID(), accountId: account.id, expiresAt: new Date(now + ttlMs(tokens.ttl)) });
+  await tx.getRepository(Session).insert(session);
+  const token = jwt.sign({ sid: session.id, iat: Math.floor(now / 1000) }, tokenKey(tokens.secret), {
     subject: account.id,
     algorithm: 'HS256',
     expiresIn: Math.floor(ttlMs(tokens.ttl) / 1000),
@@ -62,21 +61,50 @@ async function openSession(ds: DataSource, account: Account, tokens: TokenSettin
   return { token, user: toAccountView(account) };
 }
 
+async function openSession(ds: DataSource, account: Account, tokens: TokenSettings) {
+  return inTransaction(ds, (tx) => newSession(tx, account, tokens));
+}
+
+/**
+ * Token rotation: the signed-in session is closed and a new one opened, in one transaction. The close is
+ * conditional (the row must still be there), so a token refreshes once: a second refresh with it, or a copy
+ * of it replayed by someone else, finds no session and gets 401. Links signed under the old session close too.
+ */
+export async function refreshSession(ds: DataSource, account: Account, sessionId: string, tokens: TokenSettings) {
+  return inTransaction(ds, async (tx) => {
+    const closed = await tx.getRepository(Session).delete({ id: sessionId, accountId: account.id });
+    if (closed.affected !== 1) throw AppError.unauthenticated('You have been signed out. Sign in again.');
+    return newSession(tx, account, tokens);
+  });
+}
+
+/** bcrypt of a new password; one longer than bcrypt reads is refused here too, whatever schema let it through. */
+export async function hashPassword(password: string): Promise<string> {
+  if (utf8Length(password) > PASSWORD_MAX_BYTES) throw AppError.badRequest(PASSWORD_TOO_LONG, { password: PASSWORD_TOO_LONG });
+  return bcrypt.hash(password, BCRYPT_COST);
+}
+
 /** Creates an account with the sign-up roles only; `admin` comes from the seed or scripts/make-admin. */
 export async function register(ds: DataSource, input: RegisterInput, tokens: TokenSettings, extraRoles: Role[] = []) {
   const email = input.email.toLowerCase();
   const roles = [...new Set([...input.roles, ...extraRoles])];
-  const passwordHash = await bcrypt.hash(input.password, BCRYPT_COST);
+  const passwordHash = await hashPassword(input.password);
+  const taken = () => new AppError(409, 'email_taken', 'An account with this email already exists. Sign in instead.', { email: 'This email already has an account' });
   // Check and insert in one queued transaction: two sign-ups racing for one email give one account and one 409.
-  const account = await inTransaction(ds, async (tx) => {
-    const repo = tx.getRepository(Account);
-    if (await repo.existsBy({ email })) {
-      throw new AppError(409, 'email_taken', 'An account with this email already exists. Sign in instead.', { email: 'This email already has an account' });
-    }
-    return repo.save(
-      repo.create({ id: crypto.randomUUID(), email, passwordHash, name: input.name, roles: roles.join(','), activeRole: input.roles[0] ?? null }),
-    );
-  });
+  // With several processes both may pass the check; the unique email index refuses the second, also a 409.
+  let account: Account;
+  try {
+    account = await inTransaction(ds, async (tx) => {
+      const repo = tx.getRepository(Account);
+      if (await repo.existsBy({ email })) throw taken();
+      return repo.save(
+        repo.create({ id: crypto.randomUUID(), email, passwordHash, name: input.name, roles: roles.join(','), activeRole: input.roles[0] ?? null }),
+      );
+    });
+  } catch (err) {
+    if (isUniqueViolation(err)) throw taken();
+    throw err;
+  }
   return openSession(ds, account, tokens);
 }
 

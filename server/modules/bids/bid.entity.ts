@@ -49,12 +49,12 @@ export class Bid {
   note: string | null;
 
   /** When the grower accepted or declined it (or the block was withdrawn). */
-  @Column('datetime', { name: 'decided_at', nullable: true })
+  @Column({ type: Date, name: 'decided_at', nullable: true })
   decidedAt: Date | null;
 
-  @CreateDateColumn({ name: 'created_at', type: 'datetime' })
+  @CreateDateColumn({ name: 'created_at', type: Date })
   createdAt: Date;
 
-  @UpdateDateColumn({ name: 'updated_at', type: 'datetime' })
+  @UpdateDateColumn({ name: 'updated_at', type: Date })
   updatedAt: Date;
 }

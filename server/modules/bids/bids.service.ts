@@ -2,8 +2,9 @@ import crypto from 'node:crypto';
 import type { EntityManager } from 'typeorm';
 import { AppError } from '../../lib/errors/app-error';
 import { PreparedSelect } from '../../lib/db/prepared-select';
-import { check } from '../../lib/http/validate';
+import { assertJsonObject, check } from '../../lib/http/validate';
 import { inTransaction } from '../../lib/db/transaction';
+import { isUniqueViolation } from '../../lib/db/unique-violation';
 import { queueMail } from '../../lib/mail/outbox';
 import { awardMails, bidToGrowerMails } from './bids.mails';
 import type { ServiceContext } from '../../lib/service-context';
@@ -75,19 +76,21 @@ async function viewOf(em: EntityManager, id: string): Promise<BidView> {
 /** A grazier bids on an open block: the stay must fit the block's window, spray restrictions and out-by date. */
 export async function placeBid(ctx: ServiceContext, caller: Account, blockId: string, body: unknown): Promise<BidView> {
   const input = await checkBid(body);
+  const bidExists = () => AppError.conflict('You already have a live bid on this block: change that bid, or withdraw it first', 'bid_exists');
+  // Two bids from one grazier racing past the check (several processes) meet the unique live-bid index: also 409.
   const { bid } = await inTransaction(ctx.ds, async (tx) => {
     const block = await tx.findOneBy(Block, { id: blockId });
     assertCanViewBlock(caller, block, await blockFacts(tx, caller, block));
     assertCanBidOn(caller, block);
-    if (await tx.existsBy(Bid, { blockId, grazierId: caller.id, status: 'live' })) {
-      throw AppError.conflict('You already have a live bid on this block: change that bid, or withdraw it first', 'bid_exists');
-    }
+    if (await tx.existsBy(Bid, { blockId, grazierId: caller.id, status: 'live' })) throw bidExists();
     assertStayFits(stayConflicts(input, block, todayAt(ctx, block)));
     assertPriceable(input, block);
     const bid = tx.create(Bid, { id: crypto.randomUUID(), blockId, grazierId: caller.id, status: 'live', ...bidRecord(input) });
     await tx.insert(Bid, bid);
     await queueMail(tx, await bidToGrowerMails(tx, ctx.links, block, await viewOf(tx, bid.id), 'New bid'), ctx.now());
     return { bid };
+  }).catch((err: unknown) => {
+    throw isUniqueViolation(err) ? bidExists() : err;
   });
   ctx.outbox.kick();
   return viewOf(ctx.ds.manager, bid.id);
@@ -95,14 +98,14 @@ export async function placeBid(ctx: ServiceContext, caller: Account, blockId: st
 
 /** The grazier changes their live bid; it is checked again in full against the block as it is now. */
 export async function updateBid(ctx: ServiceContext, caller: Account, bidId: string, patch: unknown): Promise<BidView> {
-  if (patch === null || typeof patch !== 'object' || Array.isArray(patch)) throw AppError.badRequest('The request body must be a JSON object');
+  assertJsonObject(patch);
   await inTransaction(ctx.ds, async (tx) => {
     const bid = await tx.findOneBy(Bid, { id: bidId });
     const block = bid ? await tx.findOneBy(Block, { id: bid.blockId }) : null;
     assertBidder(caller, bid, block);
     assertBidLive(bid);
     assertBlockOpen(block!);
-    const input = await checkBid({ ...bidInputOf(bid), ...(patch as Record<string, unknown>) });
+    const input = await checkBid({ ...bidInputOf(bid), ...patch });
     assertStayFits(stayConflicts(input, block!, todayAt(ctx, block!)));
     assertPriceable(input, block!);
     await tx.update(Bid, { id: bid.id, status: 'live' }, bidRecord(input));
@@ -196,14 +199,26 @@ export async function listMyBids(ctx: ServiceContext, viewer: Account, query: un
 
 /**
  * The grower awards a bid. In one transaction: the caller must own the block (checked first, so a stranger
- * learns nothing from a 409) → the block must be open → the bid live and still fitting the block → accept
- * the bid → decline the others → mark the block awarded → create the contract to be signed. Marking the
+ * learns nothing from a 409) → the block must be open → the bid live and still fitting the block → mark the
+ * block awarded → accept the bid → decline the others → create the contract to be signed. Marking the
  * block is a conditional UPDATE (… WHERE status = 'open'): if another award got there first it changes
- * no row and this one rolls back with 409, so two racing awards make exactly one contract. Mail goes out
- * after the commit; a mail failure is logged and never undoes the award.
+ * no row and this one rolls back with 409, so two racing awards make exactly one contract. It is the first
+ * write, so on PostgreSQL a second award waits on the block's row and never holds a bid the first one must
+ * decline (the other order deadlocks); should the loser still meet a unique key (one accepted bid per block,
+ * one contract per block), that is the same 409. Mail goes out after the commit; a mail failure is logged and
+ * never undoes the award.
  */
 export async function awardBid(ctx: ServiceContext, caller: Account, bidId: string): Promise<ContractView> {
-  const { contract } = await inTransaction(ctx.ds, async (tx) => {
+  const { contract } = await awardInTransaction(ctx, caller, bidId).catch((err: unknown) => {
+    throw isUniqueViolation(err) ? AppError.conflict('This block has already been awarded', 'already_awarded') : err;
+  });
+  ctx.outbox.kick();
+  const [view] = await contractViews(ctx.ds.manager, [contract]);
+  return view;
+}
+
+function awardInTransaction(ctx: ServiceContext, caller: Account, bidId: string) {
+  return inTransaction(ctx.ds, async (tx) => {
     const bid = await tx.findOneBy(Bid, { id: bidId });
     const block = bid ? await tx.findOneBy(Block, { id: bid.blockId }) : null;
     assertAwarder(caller, bid, block);
@@ -212,16 +227,13 @@ export async function awardBid(ctx: ServiceContext, caller: Account, bidId: stri
     assertAwardable(stayConflicts(bid, block!));
 
     const at = new Date(ctx.now());
+    await markBlockAwarded(tx, block!, at);
     await acceptBid(tx, bid, at);
     const declined = await declineOtherBids(tx, bid, at);
-    await markBlockAwarded(tx, block!, at);
     const contract = await createContract(tx, block!, bid);
     await queueMail(tx, await awardMails(tx, ctx.links, block!, bid, declined, contract.id), ctx.now());
     return { contract };
   });
-  ctx.outbox.kick();
-  const [view] = await contractViews(ctx.ds.manager, [contract]);
-  return view;
 }
 
 async function acceptBid(tx: EntityManager, bid: Bid, at: Date): Promise<void> {

@@ -149,8 +149,13 @@ interface FigureSort {
   ahead: (qb: Qb, k: number | string) => void;
 }
 
-/** created_at is text in UTC: 'YYYY-MM-DD HH:MM:SS.SSS' when TypeORM writes it, without the millis when SQLite's datetime('now') does. */
-function createdAtText(ms: number, end: 'low' | 'high'): string {
+/**
+ * A created_at bound in the column's own terms. On SQLite the column is text in UTC: 'YYYY-MM-DD HH:MM:SS.SSS' when
+ * TypeORM writes it, without the millis when SQLite's datetime('now') does. On PostgreSQL it is a timestamptz to the
+ * millisecond, compared with the instant itself.
+ */
+function createdAtBound(ds: DataSource, ms: number, end: 'low' | 'high'): string | Date {
+  if (ds.options.type === 'postgres') return new Date(ms);
   const iso = new Date(ms).toISOString().replace('T', ' ').replace('Z', '');
   return end === 'low' && iso.endsWith('.000') ? iso.slice(0, -4) : iso;
 }
@@ -206,8 +211,8 @@ function figureSort(ds: DataSource, sort: Exclude<BlockSort, 'distance'>, viewer
         rank: ms,
         compare: desc,
         between: (qb, first, last) =>
-          qb.andWhere('b.created_at <= :kFirst AND b.created_at >= :kLast', { kFirst: createdAtText(first as number, 'high'), kLast: createdAtText(last as number, 'low') }),
-        ahead: (qb, k) => qb.andWhere('b.created_at > :kAhead', { kAhead: createdAtText(k as number, 'high') }),
+          qb.andWhere('b.created_at <= :kFirst AND b.created_at >= :kLast', { kFirst: createdAtBound(ds, first as number, 'high'), kLast: createdAtBound(ds, last as number, 'low') }),
+        ahead: (qb, k) => qb.andWhere('b.created_at > :kAhead', { kAhead: createdAtBound(ds, k as number, 'high') }),
       };
     }
   }

@@ -24,6 +24,6 @@ export class BlockPhoto {
   @Column('integer')
   position: number;
 
-  @CreateDateColumn({ name: 'created_at', type: 'datetime' })
+  @CreateDateColumn({ name: 'created_at', type: Date })
   createdAt: Date;
 }

@@ -1,7 +1,8 @@
 import crypto from 'node:crypto';
 import { AppError } from '../../lib/errors/app-error';
 import { inTransaction } from '../../lib/db/transaction';
-import { IMAGE_EXTENSIONS, sniffImageType } from '../../lib/storage/image-type';
+import { IMAGE_EXTENSIONS } from '../../lib/storage/image-type';
+import { reencodePhoto } from '../../lib/storage/reencode-photo';
 import type { ServiceContext } from '../../lib/service-context';
 import { Account } from '../accounts/account.entity';
 import { Block } from './block.entity';
@@ -33,13 +34,9 @@ export async function assertCanAddPhoto(ctx: ServiceContext, caller: Account, bl
 
 export async function addPhoto(ctx: ServiceContext, caller: Account, blockId: string, file: { buffer: Buffer } | undefined): Promise<BlockPhotoView> {
   if (!file) throw AppError.badRequest('Choose a photo to upload', { photo: 'Choose a photo to upload (form field "photo")' });
-  const type = sniffImageType(file.buffer);
-  if (!type) {
-    throw new AppError(415, 'unsupported_type', 'Photos must be JPEG, PNG or WebP images', {
-      photo: 'This file is not a JPEG, PNG or WebP image (checked by its content, not its name)',
-    });
-  }
-  const fileName = await ctx.photos.save(file.buffer, IMAGE_EXTENSIONS[type]);
+  // Stored as sharp writes it anew: upright, no EXIF/GPS, within 2048 px (server/lib/storage/reencode-photo.ts).
+  const { bytes, type } = await reencodePhoto(file.buffer, 'photo');
+  const fileName = await ctx.photos.save(bytes, IMAGE_EXTENSIONS[type]);
   try {
     const photo = await inTransaction(ctx.ds, async (tx) => {
       // Checked again inside the queue: two uploads in flight must not make eleven.
@@ -48,13 +45,13 @@ export async function addPhoto(ctx: ServiceContext, caller: Account, blockId: st
       assertEditable(block);
       if ((await tx.countBy(BlockPhoto, { blockId })) >= MAX_PHOTOS_PER_BLOCK) throw tooMany();
       const last = await tx.findOne(BlockPhoto, { where: { blockId }, order: { position: 'DESC' } });
-      const row = tx.create(BlockPhoto, { id: crypto.randomUUID(), blockId, fileName, mimeType: type, sizeBytes: file.buffer.length, position: (last?.position ?? 0) + 1 });
+      const row = tx.create(BlockPhoto, { id: crypto.randomUUID(), blockId, fileName, mimeType: type, sizeBytes: bytes.length, position: (last?.position ?? 0) + 1 });
       await tx.insert(BlockPhoto, row);
       return tx.findOneByOrFail(BlockPhoto, { id: row.id });
     });
     return {
       id: photo.id,
-      url: photoUrl(blockId, photo.id, signPhotoAccess(ctx.tokenSecret, { photoId: photo.id, blockId, viewerId: caller.id })),
+      url: photoUrl(blockId, photo.id, signPhotoAccess(ctx.tokenSecret, { photoId: photo.id, blockId, viewer: caller })),
       mimeType: photo.mimeType,
       sizeBytes: photo.sizeBytes,
       createdAt: photo.createdAt.toISOString(),

@@ -172,7 +172,7 @@ export async function blockViews(ctx: ServiceContext, viewer: Account, blocks: B
       cautions: cautionsForBlock(b, flock && !mine ? { species: flock.species } : {}),
       photos: (photosByBlock.get(b.id) ?? []).map((p) => ({
           id: p.id,
-          url: photoUrl(b.id, p.id, signPhotoAccess(ctx.tokenSecret, { photoId: p.id, blockId: b.id, viewerId: viewer.id })),
+          url: photoUrl(b.id, p.id, signPhotoAccess(ctx.tokenSecret, { photoId: p.id, blockId: b.id, viewer })),
           mimeType: p.mimeType,
           sizeBytes: p.sizeBytes,
           createdAt: p.createdAt.toISOString(),

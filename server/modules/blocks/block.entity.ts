@@ -106,18 +106,18 @@ export class Block {
   @Column('text', { nullable: true })
   notes: string | null;
 
-  @Column('datetime', { name: 'published_at', nullable: true })
+  @Column({ type: Date, name: 'published_at', nullable: true })
   publishedAt: Date | null;
 
-  @Column('datetime', { name: 'awarded_at', nullable: true })
+  @Column({ type: Date, name: 'awarded_at', nullable: true })
   awardedAt: Date | null;
 
-  @Column('datetime', { name: 'withdrawn_at', nullable: true })
+  @Column({ type: Date, name: 'withdrawn_at', nullable: true })
   withdrawnAt: Date | null;
 
-  @CreateDateColumn({ name: 'created_at', type: 'datetime' })
+  @CreateDateColumn({ name: 'created_at', type: Date })
   createdAt: Date;
 
-  @UpdateDateColumn({ name: 'updated_at', type: 'datetime' })
+  @UpdateDateColumn({ name: 'updated_at', type: Date })
   updatedAt: Date;
 }

@@ -67,7 +67,13 @@ export function blocksRouter(ctx: ServiceContext): Router {
   });
 
   // An <img> cannot send a bearer token, so the signed `access` link from the block view is accepted too.
-  const photoViewer = bearerOrAccessLink(auth, (access, req) => verifyPhotoAccess(ctx.tokenSecret, access, { photoId: param(req, 'photoId'), blockId: param(req, 'id') }), 'This photo link has expired or is not valid; reload the block');
+  const photoViewer = bearerOrAccessLink({
+    ds: ctx.ds,
+    now: ctx.now,
+    auth,
+    verify: (access, req) => verifyPhotoAccess(ctx.tokenSecret, access, { photoId: param(req, 'photoId'), blockId: param(req, 'id') }),
+    invalidMessage: 'This photo link has expired or is not valid; reload the block',
+  });
   router.get('/blocks/:id/photos/:photoId', photoViewer, async (req, res, next) => {
     const file = await openPhoto(ctx, res.locals.viewerId as string, param(req, 'id'), param(req, 'photoId'));
     sendStoredImage(res, next, file);

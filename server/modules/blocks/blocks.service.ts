@@ -1,7 +1,7 @@
 import crypto from 'node:crypto';
 import { type EntityManager } from 'typeorm';
 import { AppError } from '../../lib/errors/app-error';
-import { check } from '../../lib/http/validate';
+import { assertJsonObject, check } from '../../lib/http/validate';
 import { hasRole } from '../../lib/http/auth';
 import { inTransaction } from '../../lib/db/transaction';
 import { queueMail } from '../../lib/mail/outbox';
@@ -142,13 +142,13 @@ export async function createBlock(ctx: ServiceContext, owner: Account, body: unk
  *  - every grazier with a live bid is mailed the list of changed fields.
  */
 export async function updateBlock(ctx: ServiceContext, caller: Account, id: string, patch: unknown): Promise<BlockView> {
-  if (patch === null || typeof patch !== 'object' || Array.isArray(patch)) throw AppError.badRequest('The request body must be a JSON object');
+  assertJsonObject(patch);
   await inTransaction(ctx.ds, async (tx) => {
     const block = await loadBlock(tx, id);
     assertOwnsBlock(caller, block, await blockFacts(tx, caller, block));
     assertEditable(block);
     const before = blockInputOf(block);
-    const input = await checkBlock(mergePatch(before, patch as Record<string, unknown>));
+    const input = await checkBlock(mergePatch(before, patch));
     const next = blockRecord(input);
     const changed = changedFields(before, input);
     let liveBids: Bid[] = [];

@@ -1,11 +1,13 @@
 import jwt from 'jsonwebtoken';
+import type { LinkViewer } from '../../lib/http/auth';
 import { tokenKey } from '../../lib/http/token-key';
 
 // A web <img> cannot send an Authorization header, so each photo URL in a block view carries its own
-// short-lived signed token: which photo, of which block, for which viewer, for one hour. The photo route
-// still re-checks that this viewer may see the block, so a token outlives a permission by no more than
-// the request that checks it. Tokens are typed ('photo') so a sign-in token can never pass as one, nor one
-// of these as a sign-in token (sign-in tokens carry a session id; requireAuth rejects tokens without one).
+// short-lived signed token: which photo, of which block, for which viewer and which of the viewer's sign-in
+// sessions, for one hour. The photo route opens it only while that session is open (signing out ends it) and
+// still re-checks that this viewer may see the block, so a token outlives a permission by no more than the
+// request that checks it. Tokens are typed ('photo') so a sign-in token can never pass as one, nor one of
+// these as a sign-in token (requireAuth refuses any token with a `typ`).
 
 export const PHOTO_ACCESS_TTL_S = 3600;
 
@@ -13,23 +15,25 @@ interface PhotoAccessClaims {
   typ: 'photo';
   pid: string;
   bid: string;
+  /** The viewer's sign-in session the link was made under. */
+  ses: string;
   sub: string;
 }
 
-export function signPhotoAccess(secret: string, p: { photoId: string; blockId: string; viewerId: string }): string {
-  return jwt.sign({ typ: 'photo', pid: p.photoId, bid: p.blockId }, tokenKey(secret), {
-    subject: p.viewerId,
+export function signPhotoAccess(secret: string, p: { photoId: string; blockId: string; viewer: LinkViewer }): string {
+  return jwt.sign({ typ: 'photo', pid: p.photoId, bid: p.blockId, ...(p.viewer.sessionId ? { ses: p.viewer.sessionId } : {}) }, tokenKey(secret), {
+    subject: p.viewer.id,
     algorithm: 'HS256',
     expiresIn: PHOTO_ACCESS_TTL_S,
   });
 }
 
-/** The viewer id the token was issued to, if it is a valid, unexpired token for exactly this photo. */
-export function verifyPhotoAccess(secret: string, token: string, p: { photoId: string; blockId: string }): string | null {
+/** The viewer and session the token was issued to, if it is a valid, unexpired token for exactly this photo. */
+export function verifyPhotoAccess(secret: string, token: string, p: { photoId: string; blockId: string }): { viewerId: string; sessionId: string } | null {
   try {
     const claims = jwt.verify(token, tokenKey(secret), { algorithms: ['HS256'] }) as Partial<PhotoAccessClaims>;
-    if (claims.typ !== 'photo' || claims.pid !== p.photoId || claims.bid !== p.blockId || typeof claims.sub !== 'string') return null;
-    return claims.sub;
+    if (claims.typ !== 'photo' || claims.pid !== p.photoId || claims.bid !== p.blockId || typeof claims.sub !== 'string' || typeof claims.ses !== 'string') return null;
+    return { viewerId: claims.sub, sessionId: claims.ses };
   } catch {
     return null;
   }

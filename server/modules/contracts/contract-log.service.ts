@@ -2,9 +2,11 @@ import crypto from 'node:crypto';
 import type { EntityManager } from 'typeorm';
 import { AppError } from '../../lib/errors/app-error';
 import { check } from '../../lib/http/validate';
+import type { LinkViewer } from '../../lib/http/auth';
 import { inTransaction } from '../../lib/db/transaction';
 import { isUniqueViolation } from '../../lib/db/unique-violation';
-import { IMAGE_EXTENSIONS, sniffImageType } from '../../lib/storage/image-type';
+import { IMAGE_EXTENSIONS } from '../../lib/storage/image-type';
+import { reencodePhoto } from '../../lib/storage/reencode-photo';
 import type { ServiceContext } from '../../lib/service-context';
 import { Account } from '../accounts/account.entity';
 import { signPhotoAccess } from '../blocks/photo-access';
@@ -214,7 +216,7 @@ export async function addLogEntry(ctx: ServiceContext, caller: Account, id: stri
   const [contract, entry] = await Promise.all([findContract(em, id), entryById.one(em, { id: outcome.entryId })]);
   if (!contract || !entry) throw new Error(`log entry ${outcome.entryId} of contract ${id} not found after its commit`);
   const { terms } = await termsInForce(em, contract);
-  const [view] = await entryViews(ctx, em, contract, terms, [entry], caller.id);
+  const [view] = await entryViews(ctx, em, contract, terms, [entry], caller);
   return { entry: view, created: outcome.created, figures: await figuresOf(em, contract, terms, ctx.now()) };
 }
 
@@ -223,13 +225,13 @@ const entryPhotos = new PreparedSelect((em) => em.createQueryBuilder(LogPhoto, '
 const entryByClientId = new PreparedSelect((em) => em.createQueryBuilder(LogEntry, 'e').where('e.contract_id = :contractId AND e.client_id = :clientId'));
 const entryById = new PreparedSelect((em) => em.createQueryBuilder(LogEntry, 'e').where('e.id = :id'));
 
-async function entryViews(ctx: ServiceContext, em: EntityManager, contract: Contract, terms: ContractTerms, entries: LogEntry[], viewerId: string): Promise<LogEntryView[]> {
+async function entryViews(ctx: ServiceContext, em: EntityManager, contract: Contract, terms: ContractTerms, entries: LogEntry[], viewer: LinkViewer): Promise<LogEntryView[]> {
   if (entries.length === 0) return [];
   const [people, photos] = await Promise.all([partyNames.raw<{ id: string; name: string }>(em, { ids: [contract.growerId, contract.grazierId] }), entryPhotos.many(em, { ids: entries.map((e) => e.id) })]);
   const nameOf = new Map(people.map((p) => [p.id, p.name]));
   const photosOf = new Map<string, LogPhotoView[]>();
   for (const p of photos) {
-    photosOf.set(p.entryId, [...(photosOf.get(p.entryId) ?? []), photoView(ctx, p, viewerId)]);
+    photosOf.set(p.entryId, [...(photosOf.get(p.entryId) ?? []), photoView(ctx, p, viewer)]);
   }
   return entries.map((e) => ({
     id: e.id,
@@ -291,7 +293,7 @@ export async function voidLogEntry(ctx: ServiceContext, caller: Account, id: str
   const em = ctx.ds.manager;
   const contract = await em.findOneByOrFail(Contract, { id });
   const { terms } = await termsInForce(em, contract);
-  const [view] = await entryViews(ctx, em, contract, terms, [await em.findOneByOrFail(LogEntry, { id: entryId })], caller.id);
+  const [view] = await entryViews(ctx, em, contract, terms, [await em.findOneByOrFail(LogEntry, { id: entryId })], caller);
   return { entry: view, figures: await figuresOf(em, contract, terms, ctx.now()) };
 }
 
@@ -329,7 +331,7 @@ export async function listLog(ctx: ServiceContext, viewer: Account, id: string, 
   const { terms } = await termsInForce(em, contract);
   const last = page.at(-1);
   return {
-    items: await entryViews(ctx, em, contract, terms, page, viewer.id),
+    items: await entryViews(ctx, em, contract, terms, page, viewer),
     figures: await figuresOf(em, contract, terms, ctx.now()),
     nextCursor: rows.length > limit && last ? encodeCursor([last.atMs, last.id]) : null,
     canWrite: writableKinds(partyOf(viewer, contract), contract, await latestSignOff(em, contract.id)),
@@ -344,15 +346,16 @@ const wholeLog = new PreparedSelect((em) =>
 export async function allEntryViews(ctx: ServiceContext, contract: Contract, terms: ContractTerms): Promise<LogEntryView[]> {
   const em = ctx.ds.manager;
   const rows = await wholeLog.many(em, { id: contract.id });
-  return entryViews(ctx, em, contract, terms, rows, contract.grazierId);
+  // Rendered into a PDF, not shown to a signed-in viewer: photo links made without a session never open.
+  return entryViews(ctx, em, contract, terms, rows, { id: contract.grazierId });
 }
 
 // ——— photos on entries ———
 
-function photoView(ctx: ServiceContext, p: LogPhoto, viewerId: string): LogPhotoView {
+function photoView(ctx: ServiceContext, p: LogPhoto, viewer: LinkViewer): LogPhotoView {
   // The block photos' signed link, with the contract in the owner claim: a token names one photo of one
   // record for one viewer, and the photo route checks all three.
-  const token = signPhotoAccess(ctx.tokenSecret, { photoId: p.id, blockId: p.contractId, viewerId });
+  const token = signPhotoAccess(ctx.tokenSecret, { photoId: p.id, blockId: p.contractId, viewer });
   return {
     id: p.id,
     url: `/api/contracts/${encodeURIComponent(p.contractId)}/log/${encodeURIComponent(p.entryId)}/photos/${encodeURIComponent(p.id)}?access=${encodeURIComponent(token)}`,
@@ -382,20 +385,18 @@ export async function assertCanAddLogPhoto(ctx: ServiceContext, caller: Account,
 
 export async function addLogPhoto(ctx: ServiceContext, caller: Account, contractId: string, entryId: string, file: { buffer: Buffer } | undefined): Promise<LogPhotoView> {
   if (!file) throw AppError.badRequest('Choose a photo to upload', { photo: 'Choose a photo to upload (form field "photo")' });
-  const type = sniffImageType(file.buffer);
-  if (!type) {
-    throw new AppError(415, 'unsupported_type', 'Photos must be JPEG, PNG or WebP images', { photo: 'This file is not a JPEG, PNG or WebP image (checked by its content, not its name)' });
-  }
-  const fileName = await ctx.photos.save(file.buffer, IMAGE_EXTENSIONS[type]);
+  // Stored as sharp writes it anew: upright, no EXIF/GPS, within 2048 px (server/lib/storage/reencode-photo.ts).
+  const { bytes, type } = await reencodePhoto(file.buffer, 'photo');
+  const fileName = await ctx.photos.save(bytes, IMAGE_EXTENSIONS[type]);
   try {
     const photo = await inTransaction(ctx.ds, async (tx) => {
       // Checked again inside the queue: two uploads in flight must not make one too many.
       await entryForPhoto(tx, caller, contractId, entryId);
-      const row = tx.create(LogPhoto, { id: crypto.randomUUID(), entryId, contractId, fileName, mimeType: type, sizeBytes: file.buffer.length, createdAt: new Date(ctx.now()) });
+      const row = tx.create(LogPhoto, { id: crypto.randomUUID(), entryId, contractId, fileName, mimeType: type, sizeBytes: bytes.length, createdAt: new Date(ctx.now()) });
       await tx.insert(LogPhoto, row);
       return row;
     });
-    return photoView(ctx, photo, caller.id);
+    return photoView(ctx, photo, caller);
   } catch (err) {
     await ctx.photos.remove(fileName);
     throw err;

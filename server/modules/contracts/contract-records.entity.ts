@@ -43,7 +43,7 @@ export class ContractSignature {
   @Column('varchar', { name: 'user_agent', length: 400, nullable: true })
   userAgent: string | null;
 
-  @Column('datetime', { name: 'signed_at' })
+  @Column({ type: Date, name: 'signed_at' })
   signedAt: Date;
 }
 
@@ -92,10 +92,10 @@ export class ContractAmendment {
   @Column('varchar', { name: 'terms_hash', length: 64 })
   termsHash: string;
 
-  @Column('datetime', { name: 'created_at' })
+  @Column({ type: Date, name: 'created_at' })
   createdAt: Date;
 
-  @Column('datetime', { name: 'decided_at', nullable: true })
+  @Column({ type: Date, name: 'decided_at', nullable: true })
   decidedAt: Date | null;
 }
 
@@ -164,11 +164,11 @@ export class LogEntry {
   @Column('simple-json')
   flags: string[];
 
-  @Column('datetime', { name: 'recorded_at' })
+  @Column({ type: Date, name: 'recorded_at' })
   recordedAt: Date;
 
   /** Entries are never deleted: a mistake is voided by its author with a reason, and stays in the record. */
-  @Column('datetime', { name: 'voided_at', nullable: true })
+  @Column({ type: Date, name: 'voided_at', nullable: true })
   voidedAt: Date | null;
 
   @Column('text', { name: 'void_reason', nullable: true })
@@ -195,7 +195,7 @@ export class LogPhoto {
   @Column('integer', { name: 'size_bytes' })
   sizeBytes: number;
 
-  @Column('datetime', { name: 'created_at' })
+  @Column({ type: Date, name: 'created_at' })
   createdAt: Date;
 }
 
@@ -230,7 +230,7 @@ export class SignOff {
   @Column('varchar', { name: 'grazier_name', length: 120 })
   grazierName: string;
 
-  @Column('datetime', { name: 'proposed_at' })
+  @Column({ type: Date, name: 'proposed_at' })
   proposedAt: Date;
 
   @Column('real', { name: 'counter_head_days', nullable: true })
@@ -239,7 +239,7 @@ export class SignOff {
   @Column('text', { name: 'dispute_comment', nullable: true })
   disputeComment: string | null;
 
-  @Column('datetime', { name: 'disputed_at', nullable: true })
+  @Column({ type: Date, name: 'disputed_at', nullable: true })
   disputedAt: Date | null;
 
   @Column('varchar', { name: 'grower_name', length: 120, nullable: true })
@@ -248,7 +248,7 @@ export class SignOff {
   @Column('real', { name: 'agreed_head_days', nullable: true })
   agreedHeadDays: number | null;
 
-  @Column('datetime', { name: 'agreed_at', nullable: true })
+  @Column({ type: Date, name: 'agreed_at', nullable: true })
   agreedAt: Date | null;
 
   @Column('varchar', { name: 'agreed_by', length: 8, nullable: true })

@@ -88,13 +88,13 @@ export class Contract {
   @Column('real', { name: 'agreed_head_days', nullable: true })
   agreedHeadDays: number | null;
 
-  @Column('datetime', { name: 'agreed_at', nullable: true })
+  @Column({ type: Date, name: 'agreed_at', nullable: true })
   agreedAt: Date | null;
 
-  @Column('datetime', { name: 'grazing_started_at', nullable: true })
+  @Column({ type: Date, name: 'grazing_started_at', nullable: true })
   grazingStartedAt: Date | null;
 
-  @Column('datetime', { name: 'cancelled_at', nullable: true })
+  @Column({ type: Date, name: 'cancelled_at', nullable: true })
   cancelledAt: Date | null;
 
   @Column('varchar', { name: 'cancelled_by', length: 8, nullable: true })
@@ -115,9 +115,9 @@ export class Contract {
   @Column('varchar', { name: 'log_document_key', length: 120, nullable: true })
   logDocumentKey: string | null;
 
-  @CreateDateColumn({ name: 'created_at', type: 'datetime' })
+  @CreateDateColumn({ name: 'created_at', type: Date })
   createdAt: Date;
 
-  @UpdateDateColumn({ name: 'updated_at', type: 'datetime' })
+  @UpdateDateColumn({ name: 'updated_at', type: Date })
   updatedAt: Date;
 }

@@ -5,11 +5,14 @@ import type { Contract } from './contract.entity';
 import type { ContractParty, ContractStatus } from '../../../lib/schemas/contract';
 
 // Who may do what with a contract. Existence never leaks: to anyone but its two parties (and, for reading
-// the record, the operator) a contract is 404. A party doing the other party's part is 403.
+// the record, the operator) a contract is 404. A party doing the other party's part is 403, and so is the
+// operator doing a party's part: the operator may read the contract, so to them it exists.
 
-/** A contract exists only for its two parties; to anyone else it is 404. */
+/** Acting on a contract is for its two parties: 403 to the operator (who can read it), 404 to anyone else. */
 export function assertParty(viewer: Account, contract: Contract | null): asserts contract is Contract {
-  if (!contract || (contract.growerId !== viewer.id && contract.grazierId !== viewer.id)) throw AppError.notFound('Contract');
+  if (contract && partyOf(viewer, contract)) return;
+  if (contract && hasRole(viewer, 'admin')) throw AppError.forbidden('The operator may read this contract but does not act for either party');
+  throw AppError.notFound('Contract');
 }
 
 /** The parties read a contract, its log and its PDF; so does the operator (support, disputes). */

@@ -76,7 +76,13 @@ export function contractsRouter(ctx: ServiceContext): Router {
   });
 
   // An <img> cannot send a bearer token: the signed `access` link from the log view is accepted too.
-  const photoViewer = bearerOrAccessLink(auth, (access, req) => verifyPhotoAccess(ctx.tokenSecret, access, { photoId: param(req, 'photoId'), blockId: param(req, 'id') }), 'This photo link has expired or is not valid; reload the log');
+  const photoViewer = bearerOrAccessLink({
+    ds: ctx.ds,
+    now: ctx.now,
+    auth,
+    verify: (access, req) => verifyPhotoAccess(ctx.tokenSecret, access, { photoId: param(req, 'photoId'), blockId: param(req, 'id') }),
+    invalidMessage: 'This photo link has expired or is not valid; reload the log',
+  });
   router.get('/contracts/:id/log/:entryId/photos/:photoId', photoViewer, async (req, res, next) => {
     const file = await openLogPhoto(ctx, res.locals.viewerId as string, param(req, 'id'), param(req, 'entryId'), param(req, 'photoId'));
     sendStoredImage(res, next, file);

@@ -123,11 +123,16 @@ export async function listContracts(ctx: ServiceContext, viewer: Account, query:
   const { raw, entities } = await qb.addSelect('c.created_at', 'cursor_at').getRawAndEntities();
   const page = entities.slice(0, limit);
   const last = page.at(-1);
-  const lastRaw = last ? (raw as Array<{ c_id: string; cursor_at: string }>).find((r) => r.c_id === last.id) : undefined;
+  const lastRaw = last ? (raw as Array<{ c_id: string; cursor_at: string | Date }>).find((r) => r.c_id === last.id) : undefined;
   return {
     items: await contractViews(ctx.ds.manager, page, { viewer }),
-    nextCursor: entities.length > limit && last && lastRaw ? encodeCursor([String(lastRaw.cursor_at), last.id]) : null,
+    nextCursor: entities.length > limit && last && lastRaw ? encodeCursor([cursorTime(lastRaw.cursor_at), last.id]) : null,
   };
+}
+
+/** created_at as the cursor carries it: SQLite's stored text as is; PostgreSQL's timestamptz (a Date) as ISO 8601. */
+function cursorTime(raw: string | Date): string {
+  return raw instanceof Date ? raw.toISOString() : String(raw);
 }
 
 export async function getContract(ctx: ServiceContext, viewer: Account, id: string): Promise<ContractView> {

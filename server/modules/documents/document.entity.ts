@@ -41,6 +41,6 @@ export class Document {
   @Column('varchar', { name: 'storage_key', length: 200 })
   storageKey: string;
 
-  @CreateDateColumn({ name: 'created_at', type: 'datetime' })
+  @CreateDateColumn({ name: 'created_at', type: Date })
   createdAt: Date;
 }

@@ -1,4 +1,4 @@
-import { IsNull, LessThanOrEqual, type EntityManager } from 'typeorm';
+import { IsNull, type EntityManager } from 'typeorm';
 import { inTransaction } from '../../lib/db/transaction';
 import { queueMail } from '../../lib/mail/outbox';
 import { customerKey, PaymentsUnavailableError, type ProviderInvoice } from '../../lib/payments';
@@ -31,7 +31,7 @@ export function invoiceKeyBase(inv: Pick<Invoice, 'contractId'>): string {
 }
 
 export async function viewForMail(em: EntityManager, ctx: ServiceContext, inv: Invoice) {
-  const [view] = await invoiceViews(em, ctx, inv.grazierId, [inv]);
+  const [view] = await invoiceViews(em, ctx, { id: inv.grazierId }, [inv]);
   const people = await em.findBy(Account, [{ id: inv.growerId }, { id: inv.grazierId }]);
   const person = (id: string) => {
     const p = people.find((x) => x.id === id)!;
@@ -196,18 +196,49 @@ async function voidAtProvider(ctx: ServiceContext, inv: Invoice): Promise<void> 
   await inTransaction(ctx.ds, (tx) => tx.update(Invoice, { id: inv.id }, { providerStatus: voided.status, updatedAt: ctx.now() }));
 }
 
-/** Invoices still being issued whose next attempt is due; run at boot and on a timer (server/index.ts). */
-export async function resumePendingInvoices(ctx: ServiceContext): Promise<number> {
-  const due = await ctx.ds.manager.find(Invoice, {
-    where: [
-      { status: 'draft', syncNextAt: IsNull() },
-      { status: 'draft', syncNextAt: LessThanOrEqual(ctx.now()) },
-    ],
-    order: { createdAt: 'ASC' },
-    take: 50,
+/** How long a recovery run owns an invoice it took (longer than one pass through the payments API's calls). */
+export const RECOVERY_LEASE_MS = 2 * 60_000;
+
+/**
+ * Takes the oldest invoice still being issued whose next attempt is due, for this recovery run alone: its next
+ * attempt is pushed a lease ahead by a conditional UPDATE, so the recovery timers of several server processes never
+ * work on one invoice at once, and a process that died leaves it due again when the lease runs out. The run's own
+ * outcome then sets the next attempt (null once sent; the backoff after a failure). On PostgreSQL the row is picked
+ * with FOR UPDATE SKIP LOCKED, so two runs take different invoices instead of waiting on one.
+ */
+async function claimDueInvoice(ctx: ServiceContext, now: number): Promise<Invoice | 'lost' | null> {
+  return inTransaction(ctx.ds, async (tx) => {
+    const pick = tx
+      .createQueryBuilder(Invoice, 'i')
+      .where('i.status = :draft AND (i.sync_next_at IS NULL OR i.sync_next_at <= :now)', { draft: 'draft', now })
+      .orderBy('i.created_at', 'ASC')
+      .addOrderBy('i.id', 'ASC')
+      .limit(1);
+    if (tx.connection.options.type === 'postgres') pick.setLock('pessimistic_write').setOnLocked('skip_locked');
+    const inv = await pick.getOne();
+    if (!inv) return null;
+    const res = await tx
+      .createQueryBuilder()
+      .update(Invoice)
+      .set({ syncNextAt: now + RECOVERY_LEASE_MS })
+      .where('id = :id AND status = :draft AND (sync_next_at IS NULL OR sync_next_at <= :now)', { id: inv.id, draft: 'draft', now })
+      .execute();
+    return res.affected === 1 ? inv : 'lost';
   });
-  for (const inv of due) await syncInvoice(ctx, inv.id);
-  return due.length;
+}
+
+/** Invoices still being issued whose next attempt is due, each claimed then synced; run at boot and on a timer (server/index.ts). */
+export async function resumePendingInvoices(ctx: ServiceContext, max = 50): Promise<number> {
+  const now = ctx.now();
+  let done = 0;
+  for (let n = 0; n < max; n++) {
+    const inv = await claimDueInvoice(ctx, now);
+    if (inv === null) break;
+    if (inv === 'lost') continue;
+    await syncInvoice(ctx, inv.id);
+    done += 1;
+  }
+  return done;
 }
 
 /** Polls for invoices to bring into the payments API (after an outage, or a crash between two steps). */
@@ -244,7 +275,7 @@ export class InvoiceRecovery {
 
 /** The PDF renderer's data for an invoice as it stands (sent or paid), from lib's lines and the stored figures. */
 async function pdfData(ctx: ServiceContext, inv: Invoice, version: number): Promise<InvoicePdfData> {
-  const [view] = await invoiceViews(ctx.ds.manager, ctx, inv.grazierId, [inv]);
+  const [view] = await invoiceViews(ctx.ds.manager, ctx, { id: inv.grazierId }, [inv]);
   const contract = await ctx.ds.manager.findOneByOrFail(Contract, { id: inv.contractId });
   const people = await ctx.ds.manager.findBy(Account, [{ id: inv.growerId }, { id: inv.grazierId }]);
   const party = (id: string) => {

@@ -7,6 +7,7 @@ import { Contract } from '../contracts/contract.entity';
 import { Document } from '../documents/document.entity';
 import type { Invoice } from './invoice.entity';
 import { invoicePdfUrl, signInvoicePdfAccess } from './pdf-access';
+import type { LinkViewer } from '../../lib/http/auth';
 import { displayStatus, invoiceNumberLabel } from '../../../lib/invoices';
 import { todayIn } from '../../../lib/day-keys';
 import { TEST_PAYMENT_METHODS } from '../../../lib/payments';
@@ -45,7 +46,7 @@ const viewPdfs = new PreparedSelect((em) =>
     .orderBy('d.version', 'DESC'),
 );
 
-export async function invoiceViews(em: EntityManager, ctx: ViewContext, viewerId: string, invoices: Invoice[]): Promise<InvoiceView[]> {
+export async function invoiceViews(em: EntityManager, ctx: ViewContext, viewer: LinkViewer, invoices: Invoice[]): Promise<InvoiceView[]> {
   if (invoices.length === 0) return [];
   const contracts = await viewContracts.many(em, { ids: [...new Set(invoices.map((i) => i.contractId))] });
   const contractById = new Map(contracts.map((c) => [c.id, c]));
@@ -79,7 +80,7 @@ export async function invoiceViews(em: EntityManager, ctx: ViewContext, viewerId
       block: blockSummary(block),
       grower: party(inv.growerId),
       grazier: party(inv.grazierId),
-      viewerSide: inv.grazierId === viewerId ? 'receivable' : 'payable',
+      viewerSide: inv.grazierId === viewer.id ? 'receivable' : 'payable',
       status: inv.status,
       displayStatus: displayStatus(inv.status, inv.dueDate, today),
       issueDate: inv.issueDate,
@@ -114,7 +115,7 @@ export async function invoiceViews(em: EntityManager, ctx: ViewContext, viewerId
             }
           : null,
       pdf: {
-        url: invoicePdfUrl(inv.id, signInvoicePdfAccess(ctx.tokenSecret, inv.id, viewerId)),
+        url: invoicePdfUrl(inv.id, signInvoicePdfAccess(ctx.tokenSecret, inv.id, viewer)),
         sha256: pdfOf.get(inv.id)?.sha256 ?? null,
         version: pdfOf.get(inv.id)?.version ?? null,
       },

@@ -2,7 +2,7 @@ import express, { Router } from 'express';
 import { AppError } from '../../lib/errors/app-error';
 import { bearerOrAccessLink, requireAuth, requireRole, signedIn } from '../../lib/http/auth';
 import { param } from '../../lib/http/params';
-import { WebhookVerificationError } from '../../lib/payments';
+import { WebhookEventError, WebhookVerificationError } from '../../lib/payments';
 import type { ServiceContext } from '../../lib/service-context';
 import { createInvoice, getInvoice, invoicePdf, listInvoices, payInvoice, voidInvoice } from './invoices.service';
 import { applyPaymentEvent } from './payment-events';
@@ -29,7 +29,13 @@ export function invoicesRouter(ctx: ServiceContext): Router {
   });
 
   // A download link cannot send a bearer token, so the signed `access` link from the invoice view is accepted too.
-  const pdfViewer = bearerOrAccessLink(auth, (access, req) => verifyInvoicePdfAccess(ctx.tokenSecret, access, param(req, 'id')), 'This download link has expired or is not valid; reload the invoice');
+  const pdfViewer = bearerOrAccessLink({
+    ds: ctx.ds,
+    now: ctx.now,
+    auth,
+    verify: (access, req) => verifyInvoicePdfAccess(ctx.tokenSecret, access, param(req, 'id')),
+    invalidMessage: 'This download link has expired or is not valid; reload the invoice',
+  });
   router.get('/invoices/:id/pdf', pdfViewer, async (req, res) => {
     // The invoices policy first (404 to anyone but the two parties), then the documents module sends the file.
     const doc = await invoicePdf(ctx, res.locals.viewerId as string, param(req, 'id'));
@@ -60,6 +66,7 @@ export function paymentsWebhookRouter(ctx: ServiceContext): Router {
     try {
       event = ctx.payments.verifyWebhook(raw, req.get('stripe-signature') ?? undefined);
     } catch (err) {
+      if (err instanceof WebhookEventError) throw new AppError(400, 'bad_event', `The webhook verified but is not an event Fieldfold can read: ${err.message}`);
       if (err instanceof WebhookVerificationError) throw new AppError(400, 'bad_signature', `The webhook signature did not verify: ${err.message}`);
       throw err;
     }

@@ -4,10 +4,12 @@ import { PreparedSelect } from '../../lib/db/prepared-select';
 import { decodeCursor, encodeCursor } from '../contracts/cursor';
 import { AppError } from '../../lib/errors/app-error';
 import { inTransaction } from '../../lib/db/transaction';
+import { isUniqueViolation } from '../../lib/db/unique-violation';
 import { check } from '../../lib/http/validate';
 import { hasRole } from '../../lib/http/auth';
 import { PaymentsUnavailableError, type PaymentOutcome } from '../../lib/payments';
 import { Account } from '../accounts/account.entity';
+import { lockContract } from '../contracts/contract-state';
 import { Contract } from '../contracts/contract.entity';
 import { Invoice, InvoiceCounter } from './invoice.entity';
 import type { ServiceContext } from '../../lib/service-context';
@@ -35,8 +37,16 @@ import {
 /** How long one payment attempt owns an invoice: longer than the SDK's timeout with its retries. */
 export const PAY_LEASE_MS = 90_000;
 
+/** 409 naming the contract's invoice, with its address in Location. */
+function alreadyInvoiced(existing: Invoice): AppError {
+  const label = invoiceNumberLabel(existing.numberPrefix, existing.number);
+  return new AppError(409, 'already_invoiced', `This contract is invoiced already: invoice ${label} (${existing.id}).`, undefined, {
+    Location: `/api/invoices/${existing.id}`,
+  });
+}
+
 async function viewOf(ctx: ServiceContext, viewer: Account, inv: Invoice, em: EntityManager = ctx.ds.manager): Promise<InvoiceView> {
-  const [view] = await invoiceViews(em, ctx, viewer.id, [inv]);
+  const [view] = await invoiceViews(em, ctx, viewer, [inv]);
   return view;
 }
 
@@ -45,11 +55,17 @@ async function viewOf(ctx: ServiceContext, viewer: Account, inv: Invoice, em: En
  * invoiced, the next number of the grazier's sequence is taken (a conditional UPDATE of their counter, the unique
  * (grazier, number) index behind it), the lines are computed by lib/ and the invoice row is written. After the
  * commit the invoice is created in the payments API and its PDF rendered; neither runs inside the transaction.
+ * Two requests racing past the check in different processes meet the unique contract index: the loser answers
+ * the same 409 as a request that came late.
  */
 export async function createInvoice(ctx: ServiceContext, viewer: Account, contractId: string, body: unknown): Promise<InvoiceView> {
   const input = await check(createInvoiceSchema, body ?? {});
   const terms = input.paymentTermsDays ?? DEFAULT_PAYMENT_TERMS_DAYS;
-  const invoiceId = await inTransaction(ctx.ds, (tx) => writeInvoice(tx, ctx, viewer, contractId, terms));
+  const invoiceId = await inTransaction(ctx.ds, (tx) => writeInvoice(tx, ctx, viewer, contractId, terms)).catch(async (err: unknown) => {
+    if (!isUniqueViolation(err)) throw err;
+    const winner = await ctx.ds.manager.findOneBy(Invoice, { contractId });
+    throw winner ? alreadyInvoiced(winner) : AppError.conflict('Invoices are being numbered by another request; try again.', 'numbering_busy');
+  });
   // After the commit: the payments API (idempotent, retried later if it is down), then the PDF once it is sent.
   await syncInvoice(ctx, invoiceId);
   return viewOf(ctx, viewer, await ctx.ds.manager.findOneByOrFail(Invoice, { id: invoiceId }));
@@ -60,15 +76,12 @@ export async function createInvoice(ctx: ServiceContext, viewer: Account, contra
  * sequence is taken, the row is written and the contract moves to invoiced. Resolves with the invoice's id.
  */
 export async function writeInvoice(tx: EntityManager, ctx: ServiceContext, viewer: Account, contractId: string, paymentTermsDays: number): Promise<string> {
-  const contract = await tx.findOneBy(Contract, { id: contractId });
+  // Locked first: a second request for the same contract (a double tap, on any process) waits here and then
+  // finds the first one's invoice.
+  const contract = await lockContract(tx, contractId);
   assertMayInvoice(viewer, contract);
   const existing = await tx.findOneBy(Invoice, { contractId: contract.id });
-  if (existing) {
-    const label = invoiceNumberLabel(existing.numberPrefix, existing.number);
-    throw new AppError(409, 'already_invoiced', `This contract is invoiced already: invoice ${label} (${existing.id}).`, undefined, {
-      Location: `/api/invoices/${existing.id}`,
-    });
-  }
+  if (existing) throw alreadyInvoiced(existing);
   if (contract.status !== 'agreed') {
     throw AppError.conflict('Invoice once both of you have agreed the head-days at sign-off.', 'not_agreed');
   }
@@ -228,7 +241,7 @@ export async function listInvoices(ctx: ServiceContext, viewer: Account, query: 
   } else rows = await invoiceLists.first[side].many(em, take);
   const page = rows.slice(0, limit);
   const last = page.at(-1);
-  const [items, groups] = await Promise.all([invoiceViews(em, ctx, viewer.id, page), invoiceLists.totals[side].raw<TotalsRow>(em, { me: viewer.id })]);
+  const [items, groups] = await Promise.all([invoiceViews(em, ctx, viewer, page), invoiceLists.totals[side].raw<TotalsRow>(em, { me: viewer.id })]);
   const now = ctx.now();
   const todays = new Map<string, string>();
   const todayAt = (zone: string) => todays.get(zone) ?? todays.set(zone, todayIn(zone, now)).get(zone)!;
@@ -239,7 +252,7 @@ export async function listInvoices(ctx: ServiceContext, viewer: Account, query: 
   });
   // "This season" on the calendar of the first invoice in list order (the first page's first item).
   const first = q.cursor ? (await invoiceLists.first[side].many(em, { me: viewer.id, limit: 1 }))[0] : undefined;
-  const zone = (first ? (await invoiceViews(em, ctx, viewer.id, [first]))[0] : items[0])?.block.timeZone ?? 'UTC';
+  const zone = (first ? (await invoiceViews(em, ctx, viewer, [first]))[0] : items[0])?.block.timeZone ?? 'UTC';
   return {
     side,
     items,

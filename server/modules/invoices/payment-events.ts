@@ -1,4 +1,5 @@
 import { inTransaction } from '../../lib/db/transaction';
+import { isUniqueViolation } from '../../lib/db/unique-violation';
 import type { PaymentEvent } from '../../lib/payments';
 import { Invoice, PaymentEventRecord } from './invoice.entity';
 import type { ServiceContext } from '../../lib/service-context';
@@ -7,13 +8,27 @@ import { markPaid, markSent, refreshInvoicePdf } from './invoice-sync';
 // Events from the payments API, each applied once. The event's id is stored in the same transaction that applies
 // it (its primary key refuses a second row), so a redelivered event changes nothing. Events may arrive in any
 // order: each one only moves an invoice forward (draft → sent → paid; void), never back, so "paid" arriving
-// before "finalized" ends paid, and the late "finalized" is recorded as no change.
+// before "finalized" ends paid, and the late "finalized" is recorded as no change. Two deliveries of one event
+// racing in different processes both pass the first look; the loser's insert of the event id meets the primary
+// key, its transaction (and whatever it changed) rolls back, and it answers 'duplicate' like a late redelivery.
 
 export type EventOutcome = 'applied' | 'no-change' | 'unmatched' | 'ignored' | 'duplicate';
 
 export async function applyPaymentEvent(ctx: ServiceContext, event: PaymentEvent): Promise<EventOutcome> {
   let invoiceId: string | null = null;
-  const outcome = await inTransaction(ctx.ds, async (tx): Promise<EventOutcome> => {
+  const outcome = await applyInTransaction(ctx, event, (id) => (invoiceId = id)).catch(async (err: unknown): Promise<EventOutcome> => {
+    if (isUniqueViolation(err) && (await ctx.ds.manager.existsBy(PaymentEventRecord, { id: event.id }))) return 'duplicate';
+    throw err;
+  });
+  if (outcome === 'applied' && invoiceId) {
+    ctx.outbox.kick();
+    await refreshInvoicePdf(ctx, invoiceId);
+  }
+  return outcome;
+}
+
+function applyInTransaction(ctx: ServiceContext, event: PaymentEvent, matched: (invoiceId: string | null) => void): Promise<EventOutcome> {
+  return inTransaction(ctx.ds, async (tx): Promise<EventOutcome> => {
     if (await tx.findOneBy(PaymentEventRecord, { id: event.id })) return 'duplicate';
     let invoice: Invoice | null = null;
     if (event.invoice) {
@@ -57,13 +72,8 @@ export async function applyPaymentEvent(ctx: ServiceContext, event: PaymentEvent
           result = 'ignored';
       }
     }
-    invoiceId = invoice?.id ?? null;
+    matched(invoice?.id ?? null);
     await tx.insert(PaymentEventRecord, { id: event.id, type: event.type, invoiceId: invoice?.id ?? null, outcome: result, receivedAt: ctx.now() });
     return result;
   });
-  if (outcome === 'applied' && invoiceId) {
-    ctx.outbox.kick();
-    await refreshInvoicePdf(ctx, invoiceId);
-  }
-  return outcome;
 }
