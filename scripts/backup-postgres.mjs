@@ -1,8 +1,8 @@
 // Backup and restore of a PostgreSQL database (DATABASE_URL) with PostgreSQL's own tools: pg_dump in its custom
 // format (-Fc: compressed, every table, index, function and the migrations table, restorable table by table) and
-// pg_restore --clean --if-exists (drops what the dump holds, then makes it again from the dump). The SQLite backup
-// (scripts/backup.mjs) calls these when DATABASE_URL is set; uploads and documents in DATA_DIR are files and are
-// backed up with them there, not here.
+// pg_restore --clean --if-exists (drops what the dump holds, then makes it again from the dump). `npm run backup`
+// and `npm run restore` (scripts/backups/) call these when DATABASE_URL is set, with the uploads, the documents
+// and a manifest beside the dump; this file on its own moves the database only.
 //
 //   node scripts/backup-postgres.mjs dump    postgres://…/fieldfold  backups/fieldfold.dump
 //   node scripts/backup-postgres.mjs restore postgres://…/fieldfold  backups/fieldfold.dump
@@ -37,18 +37,33 @@ function runTool(name, args, url) {
 
 /**
  * Dumps the database at `url` into `file` (custom format), written beside it first and renamed when complete, so a
- * failed dump never leaves a half file under the backup's name. Resolves with the file's size in bytes.
+ * failed dump never leaves a half file under the backup's name. Returns the file's size in bytes.
+ * `snapshot`: a snapshot another session exported (pg_export_snapshot()) and holds open, for a dump that sees
+ * exactly what that session sees (npm run backup counts the rows in it).
+ * @param {string} url @param {string} file @param {{ snapshot?: string }} [options]
  */
-export function dumpPostgres(url, file) {
+export function dumpPostgres(url, file, { snapshot } = {}) {
   fs.mkdirSync(path.dirname(path.resolve(file)), { recursive: true });
   const partial = `${file}.partial`;
   try {
-    runTool('pg_dump', ['--format=custom', '--no-owner', '--no-privileges', `--file=${partial}`, `--dbname=${url}`], url);
+    runTool('pg_dump', ['--format=custom', '--no-owner', '--no-privileges', ...(snapshot ? [`--snapshot=${snapshot}`] : []), `--file=${partial}`, `--dbname=${url}`], url);
     fs.renameSync(partial, file);
   } finally {
     fs.rmSync(partial, { force: true });
   }
   return fs.statSync(file).size;
+}
+
+/**
+ * Reads the whole dump as pg_restore would restore it (every entry, every table's data decompressed, the SQL
+ * written to nowhere) and throws when it is no whole custom-format dump: the check npm run backup makes of its copy
+ * and npm run restore makes before it touches anything.
+ */
+export function checkDump(file) {
+  if (!fs.existsSync(file)) throw new Error(`no dump at ${file}`);
+  const r = spawnSync(tool('pg_restore'), ['--file=/dev/null', file], { encoding: 'utf8', stdio: ['ignore', 'pipe', 'pipe'] });
+  if (r.error) throw new Error(`pg_restore could not run (${r.error.message}): install postgresql-client`);
+  if (r.status !== 0) throw new Error(`${file} is not a whole pg_dump archive: ${r.stderr.trim()}`);
 }
 
 /**

@@ -3,7 +3,9 @@
 // 2. jest: the app project (jest-expo) and the server project (supertest on createApp, lib checks), on SQLite;
 //    then the server suite again on PostgreSQL: Debian's postgresql (installed when missing), a throw-away cluster
 //    on a free port (scripts/postgres.mjs), TEST_DATABASE_URL pointing at it (each test app gets its own database),
-//    two real server processes on one database among them (two-processes.test.ts); the cluster stops at the end;
+//    the authorisation matrix, hostile input, the races (two apps, and two real server processes, on one
+//    database), two-processes.test.ts, restart and backup/restore among them; the suites that open no database
+//    are left to the SQLite pass (scripts/jest-postgres.mjs); the cluster stops at the end;
 // 3. builds the web app and server, starts the local services (mail sink) and the real server on free
 //    ports with a throw-away DATA_DIR, and runs the browser suite (playwright-core driving /usr/bin/chromium);
 // 4. prints one closing line totalling every suite: "N passed, N failed", after a line per suite.
@@ -13,6 +15,7 @@ import path from 'node:path';
 import { spawnSync } from 'node:child_process';
 import { buildServer, buildWeb, ensureDependencies, freePort, root, startServer } from './lib.mjs';
 import { startLocalServices } from './local-services.mjs';
+import { POSTGRES_PASS } from './jest-postgres.mjs';
 import { startPostgres } from './postgres.mjs';
 
 const CHROMIUM = '/usr/bin/chromium';
@@ -63,8 +66,8 @@ try {
 
   try {
     postgres = await startPostgres({ durable: false });
-    // Two workers: the tests wait on the database server much of the time, so a second one keeps both cores busy.
-    add('server suite on PostgreSQL', jest(['--ci', '--maxWorkers=2', '--testPathPattern', '__tests__/server', '--selectProjects', 'server'], 'jest-postgres.json', { TEST_DATABASE_URL: postgres.url() }));
+    // The server suite but the suites that open no database (scripts/jest-postgres.mjs says which).
+    add('server suite on PostgreSQL', jest(POSTGRES_PASS, 'jest-postgres.json', { TEST_DATABASE_URL: postgres.url() }));
   } catch (err) {
     console.error(`[fieldfold] the PostgreSQL pass could not run: ${err.message}`);
     add('server suite on PostgreSQL', { passed: 0, failed: 1 });

@@ -14,17 +14,21 @@ import { createPayments } from '../../server/lib/payments';
 import type { Live } from './live-flow';
 import { startServerProcess, type ServerProcess } from './server-process';
 import { TEST_NOW, TEST_TOKENS, UNREACHED_LIMITS } from './test-app';
+import { freshTestDatabase, onPostgres, type TestDatabase } from './test-database';
 
 // The servers a race test fires at: one or more, all on ONE database, so a once-only effect must hold across
-// them, not only inside one process. Chosen by RACE_TARGETS:
+// them, not only inside one process. Chosen by RACE_TARGETS (unset: both, one after the other):
 //
-//   in-process (default)  two createApp instances on one migrated in-memory SQLite, each with its own outbox
-//                         sender, driven through supertest; the clock is fixed (noon, 1 Dec 2026, California).
-//   processes             RACE_PROCESSES (default 2) real server processes (server/index.ts) on one DATA_DIR,
-//                         on the real clock, started one after another (the first runs the migrations).
-//                         Extra server variables go in RACE_SERVER_ENV as JSON — DATABASE_URL for PostgreSQL
-//                         (issue 12); openSharedDatabase() below is where the test's own connection to that
-//                         database is opened, for the assertions. RACE_DEBUG=1 prints the servers' output at close.
+//   in-process   two createApp instances on one database, each with its own outbox sender, driven through
+//                supertest; the clock is fixed (noon, 1 Dec 2026, California). SQLite: one migrated in-memory
+//                database, which both apps share through one data source (an in-memory database is one
+//                connection's own). PostgreSQL (TEST_DATABASE_URL, helpers/test-database.ts): a fresh migrated
+//                database, and each app its own data source and pool on it, as each process has.
+//   processes    RACE_PROCESSES (default 2) real server processes (server/index.ts) on one DATA_DIR, on the real
+//                clock, started one after another (the first runs the migrations). SQLite: the file in that
+//                DATA_DIR. PostgreSQL: DATABASE_URL names one fresh, EMPTY database of the test cluster, so the
+//                first server migrates it as a new deployment would. Extra server variables go in
+//                RACE_SERVER_ENV as JSON. RACE_DEBUG=1 prints the servers' output at close.
 //
 // Either way the payments fake runs inside the test process with its webhooks held (autoDeliver off), so a
 // test takes a signed delivery and posts it to whichever server it likes, as many times as it likes. Mail is
@@ -52,7 +56,7 @@ export interface RaceTargets extends Live {
 
 export type RaceMode = RaceTargets['mode'];
 
-/** The modes a race suite runs in: RACE_TARGETS when set, else both (processes: two servers on one SQLite file). */
+/** The modes a race suite runs in: RACE_TARGETS when set, else both. */
 export function raceModes(): RaceMode[] {
   const m = process.env.RACE_TARGETS;
   if (m === undefined || m === '') return ['in-process', 'processes'];
@@ -66,10 +70,12 @@ async function fakeFor(now: () => number) {
   return { fake, dir };
 }
 
-/** The test's connection to the database the servers share (SQLite: the file in DATA_DIR). */
-async function openSharedDatabase(dataDir: string): Promise<DataSource> {
-  // PostgreSQL (issue 12): open the DataSource on RACE_SERVER_ENV's DATABASE_URL here instead.
-  return openDatabase(path.join(dataDir, DATABASE_FILE));
+/**
+ * The test's connection to the database the servers share: the PostgreSQL database they were given, or the SQLite
+ * file in DATA_DIR. Opened after the first server migrated it (openDatabase finds nothing left to run).
+ */
+async function openSharedDatabase(dataDir: string, databaseUrl: string | undefined): Promise<DataSource> {
+  return openDatabase(databaseUrl ?? path.join(dataDir, DATABASE_FILE));
 }
 
 export async function raceTargets(mode: RaceMode): Promise<RaceTargets> {
@@ -93,15 +99,18 @@ function common(fake: PaymentsFake, api: Live['api']) {
 async function inProcessTargets(size = 2): Promise<RaceTargets> {
   const now = () => TEST_NOW;
   const { fake, dir } = await fakeFor(now);
-  const db = await openDatabase(':memory:');
+  const database = await freshTestDatabase();
+  const db = await openDatabase(database.target);
+  // SQLite's in-memory database is one connection's own: both apps share the test's data source there.
+  const appSources = onPostgres ? await Promise.all(Array.from({ length: size }, () => openDatabase(database.target))) : Array.from({ length: size }, () => db);
   const uploadsDir = fs.mkdtempSync(path.join(os.tmpdir(), 'fieldfold-race-uploads-'));
   const documentsDir = fs.mkdtempSync(path.join(os.tmpdir(), 'fieldfold-race-documents-'));
   const mail = new MemoryMail();
   const payments = createPayments({ mode: 'fake', secretKey: 'sk_test_fieldfold', apiUrl: fake.url, webhookSecret: RACE_WEBHOOK_SECRET, webhookToleranceSeconds: 300 });
   // One sender per app, as each process has its own: the outbox's lease must keep them from sending a row twice.
-  const senders = Array.from({ length: size }, () => new OutboxSender(db, mail, now, () => {}));
-  const apps = senders.map((outbox) => {
-    const deps: AppDeps = { dataSource: db, tokens: TEST_TOKENS, log: () => {}, uploadsDir, documentsDir, outbox, publicUrl: 'http://fieldfold.test', now, payments, rateLimits: { limits: UNREACHED_LIMITS } };
+  const senders = appSources.map((ds) => new OutboxSender(ds, mail, now, () => {}));
+  const apps = senders.map((outbox, i) => {
+    const deps: AppDeps = { dataSource: appSources[i], tokens: TEST_TOKENS, log: () => {}, uploadsDir, documentsDir, outbox, publicUrl: 'http://fieldfold.test', now, payments, rateLimits: { limits: UNREACHED_LIMITS } };
     return createApp(deps);
   });
   const api = (i = 0) => request(apps[i % size]);
@@ -117,7 +126,8 @@ async function inProcessTargets(size = 2): Promise<RaceTargets> {
     },
     async close() {
       await Promise.all(senders.map((s) => s.stop()));
-      await db.destroy();
+      for (const ds of new Set([...appSources, db])) await ds.destroy();
+      await database.drop();
       await fake.close();
       for (const d of [dir, uploadsDir, documentsDir]) fs.rmSync(d, { recursive: true, force: true });
     },
@@ -130,16 +140,18 @@ async function processTargets(): Promise<RaceTargets> {
   const extra = process.env.RACE_SERVER_ENV ? (JSON.parse(process.env.RACE_SERVER_ENV) as Record<string, string>) : {};
   const { fake, dir } = await fakeFor(Date.now);
   const dataDir = fs.mkdtempSync(path.join(os.tmpdir(), 'fieldfold-race-data-'));
-  const env = { PAYMENTS_API_URL: fake.url, PAYMENTS_WEBHOOK_SECRET: RACE_WEBHOOK_SECRET, ...extra };
+  const database: TestDatabase | null = onPostgres ? await freshTestDatabase({ migrated: false }) : null;
+  const env: Record<string, string> = { PAYMENTS_API_URL: fake.url, PAYMENTS_WEBHOOK_SECRET: RACE_WEBHOOK_SECRET, ...(database ? { DATABASE_URL: database.target } : {}), ...extra };
   const servers: ServerProcess[] = [];
   try {
     // One after another: the first migrates a fresh database, the others find it migrated.
     for (let i = 0; i < size; i++) servers.push(await startServerProcess({ dataDir, env }));
   } catch (err) {
     await Promise.all(servers.map((s) => s.kill()));
+    await database?.drop();
     throw err;
   }
-  const db = await openSharedDatabase(dataDir);
+  const db = await openSharedDatabase(dataDir, env.DATABASE_URL);
   const api = (i = 0) => request(servers[i % size].url);
   return {
     mode: 'processes',
@@ -160,6 +172,7 @@ async function processTargets(): Promise<RaceTargets> {
       await Promise.all(servers.map((s) => s.stop()));
       if (process.env.RACE_DEBUG) for (const s of servers) console.log(s.output());
       await db.destroy();
+      await database?.drop();
       await fake.close();
       for (const d of [dir, dataDir]) fs.rmSync(d, { recursive: true, force: true });
     },

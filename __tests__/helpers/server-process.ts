@@ -41,7 +41,7 @@ export function freePort(): Promise<number> {
 }
 
 // Variables a developer's shell may hold that would send a test server to real services.
-const INHERITED_OUT = ['SMTP_PORT', 'SMTP_HOST', 'MAIL_UI_PORT', 'PAYMENTS_SECRET_KEY', 'PAYMENTS_API_URL', 'PAYMENTS_WEBHOOK_SECRET', 'PAYMENTS_WEBHOOK_URL', 'CORS_ORIGIN', 'PUBLIC_URL', 'PORT', 'DATA_DIR'];
+const INHERITED_OUT = ['DATABASE_URL', 'SMTP_PORT', 'SMTP_HOST', 'MAIL_UI_PORT', 'PAYMENTS_SECRET_KEY', 'PAYMENTS_API_URL', 'PAYMENTS_WEBHOOK_SECRET', 'PAYMENTS_WEBHOOK_URL', 'CORS_ORIGIN', 'PUBLIC_URL', 'PORT', 'DATA_DIR'];
 
 function exitOf(child: ChildProcess): Promise<number | null> {
   if (child.exitCode !== null || child.signalCode !== null) return Promise.resolve(child.exitCode);

@@ -66,10 +66,16 @@ function templateDatabase(): Promise<string> {
   return template;
 }
 
-/** A fresh database for one test app. */
-export async function freshTestDatabase(): Promise<TestDatabase> {
-  if (!TEST_DATABASE_URL) return { target: ':memory:', drop: async () => undefined };
-  const tpl = await templateDatabase();
+/**
+ * A fresh database for one test app: migrated (copied from the template), or with `migrated: false` an empty one
+ * (PostgreSQL only), for the tests whose servers run the migrations themselves as a new deployment does.
+ */
+export async function freshTestDatabase({ migrated = true }: { migrated?: boolean } = {}): Promise<TestDatabase> {
+  if (!TEST_DATABASE_URL) {
+    if (!migrated) throw new Error('freshTestDatabase({ migrated: false }) needs TEST_DATABASE_URL (an empty SQLite database is a new file)');
+    return { target: ':memory:', drop: async () => undefined };
+  }
+  const tpl = migrated ? await templateDatabase() : 'template0';
   made += 1;
   const name = `fieldfold_test_${process.pid}_${made}_${crypto.randomBytes(3).toString('hex')}`;
   await admin((c) => c.query(`CREATE DATABASE "${name}" TEMPLATE "${tpl}"`));

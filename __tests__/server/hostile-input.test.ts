@@ -450,6 +450,8 @@ describe('Hostile input: the cases the properties found', () => {
   it('When a block or a bid is patched with a __proto__ key, then 400 and the record is as it was', async () => {
     const blockId = await w.draftBlock();
     const { partyBidId } = await w.bids(await w.openBlock());
+    // The bids' mail is sent first, so the sender's own writes are not taken for the requests'.
+    await w.t.deliverMail();
     const before = await dbFingerprint(w.t.dataSource);
     const block = await w.api().patch(`/api/blocks/${blockId}`).set(w.auth('owner')).set('Content-Type', 'application/json').send('{"__proto__":{"name":"Renamed by the prototype"}}');
     const bid = await w.api().patch(`/api/bids/${partyBidId}`).set(w.auth('party')).set('Content-Type', 'application/json').send('{"note":"ok","__proto__":{"rate":"99"}}');
@@ -487,6 +489,20 @@ describe('Hostile input: the cases the properties found', () => {
     expect(performance.now() - started).toBeLessThan(BOUND_MS);
     expect(res.status).toBe(400);
     expect(Object.keys(res.body.error.fields)).toEqual(['until']);
+  });
+
+  it('When an id in the path holds a NUL, raw or encoded, then 404 and nothing changes (PostgreSQL refuses a NUL in any text, which was a 500 there)', async () => {
+    const before = await dbFingerprint(w.t.dataSource);
+    for (const [method, path] of [
+      ['get', '/api/blocks/%00/bids'],
+      ['get', `/api/blocks/${encodeURIComponent('a\u0000b')}`],
+      ['get', '/api/contracts/%00'],
+      ['post', '/api/invoices/%00/pay'],
+    ] as const) {
+      const res = await w.api()[method](path).set(w.auth('owner')).set('Content-Type', 'application/json').send('{}');
+      expect({ path, status: res.status, code: res.body.error?.code }).toEqual({ path, status: 404, code: 'not_found' });
+    }
+    expect(changedTables(before, await dbFingerprint(w.t.dataSource))).toEqual([]);
   });
 
   it('When a webhook is signed but is no event (a list, no data, a text timestamp, a text paid_at), then 400 bad_event and nothing is stored', async () => {

@@ -11,6 +11,7 @@ import { SmtpMail } from '../../server/lib/mail/smtp-mail';
 import { openDatabase } from '../../server/db/data-source';
 import { inTransaction } from '../../server/lib/db/transaction';
 import { OUTBOX_BACKOFF_MS, OutboxSender, pendingMail, queueMail } from '../../server/lib/mail/outbox';
+import { freshTestDatabase } from '../helpers/test-database';
 
 // Real mail end to end on loopback: the nodemailer adapter speaks SMTP to the sink (smtp-server on port 0),
 // and the tests read what arrived through the sink's JSON API and inbox page, as a developer would.
@@ -206,7 +207,8 @@ describe('the SMTP adapter and the mail sink', () => {
   });
 
   it('When the sink is down, then the outbox keeps the message and delivers it through the adapter once the sink is back', async () => {
-    const ds = await openDatabase(':memory:');
+    const database = await freshTestDatabase();
+    const ds = await openDatabase(database.target);
     const clock = { now: Date.parse('2026-12-01T20:00:00Z') };
     const logged: string[] = [];
     const outbox = new OutboxSender(ds, mail, () => clock.now, (l) => logged.push(l));
@@ -228,6 +230,7 @@ describe('the SMTP adapter and the mail sink', () => {
     } finally {
       await outbox.stop();
       await ds.destroy();
+      await database.drop();
     }
   });
 });

@@ -1,5 +1,6 @@
 import type request from 'supertest';
 import { raceModes, raceTargets, type RaceTargets } from '../helpers/race-targets';
+import { onPostgres } from '../helpers/test-database';
 import { agreed, awarded, bid, grazed, grazier, invoiced, logEntry, logTimes, openBlock, signBody, signed, signUp, stayDates } from '../helpers/live-flow';
 import { Bid } from '../../server/modules/bids/bid.entity';
 import { Block } from '../../server/modules/blocks/block.entity';
@@ -11,11 +12,13 @@ import { OutboxMessage } from '../../server/lib/mail/outbox.entity';
 // Races: the same once-only action fired many times at once — a double tap, a phone's retry, a webhook
 // redelivered — must take effect once. Every request of a burst is started in the same tick (Promise.all on
 // supertest requests) and spread over every server race-targets.ts gives, in each mode:
-//   in-process  two apps on one in-memory database. SQLite runs the transactions one after another, so a burst
-//               interleaves at every await between them: one request's reads, another's writes.
-//   processes   two real server processes on one SQLite file, each with its own transaction queue: here SQLite's
-//               own locking and the database's unique keys and conditional updates are all that stand between the
-//               requests (PostgreSQL, issue 12, runs the same suite with RACE_SERVER_ENV).
+//   in-process  two apps on one database. On SQLite (in memory) the transactions run one after another, so a
+//               burst interleaves at every await between them: one request's reads, another's writes. On
+//               PostgreSQL each app has its own pool, so the transactions truly overlap.
+//   processes   two real server processes on one database — one SQLite file, or in npm test's PostgreSQL pass one
+//               fresh PostgreSQL database the first server migrates — each with its own transactions: here the
+//               engine's locking and the database's unique keys and conditional updates are all that stand
+//               between the requests.
 // The answers must be exactly one success and conflicts for the rest, never a 500, and the database must show
 // one effect: one contract, one signature, one agreed figure, one invoice, one charge, one entry, one receipt.
 
@@ -41,7 +44,7 @@ async function mailTo(email: string): Promise<string[]> {
   return (await t.db.getRepository(OutboxMessage).findBy({ to: email })).map((m) => m.subject).sort();
 }
 
-describe.each(raceModes())('%s', (mode) => {
+describe.each(raceModes())(`%s, on ${onPostgres ? 'PostgreSQL' : 'SQLite'}`, (mode) => {
   beforeAll(async () => {
     t = await raceTargets(mode);
   }, 120_000);

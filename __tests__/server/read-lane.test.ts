@@ -54,4 +54,15 @@ describe('ReadLane', () => {
     await expect(next).resolves.toBe('served');
     expect(lane.waiting).toBe(0);
   });
+
+  it('When the work throws before it returns a promise (a bad route parameter read as the call is built), then its caller gets the error and the lane goes on', async () => {
+    const lane = new ReadLane();
+    const failed = lane.run((): Promise<string> => {
+      throw new Error('Record not found');
+    });
+    const next = lane.run(async () => 'served');
+    await expect(failed).rejects.toThrow('Record not found');
+    await expect(next).resolves.toBe('served');
+    expect(lane.waiting).toBe(0);
+  });
 });

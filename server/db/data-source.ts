@@ -50,6 +50,12 @@ export function isPostgresTarget(database: DatabaseTarget): boolean {
   return /^postgres(ql)?:\/\//.test(database);
 }
 
+/**
+ * The application_name every server process's PostgreSQL connections carry: npm run restore refuses while a
+ * session with it is connected to the database, from whichever machine.
+ */
+export const POSTGRES_APPLICATION_NAME = 'fieldfold';
+
 /** Connections each server process may hold on PostgreSQL (N processes hold up to N times this many). */
 export const POSTGRES_POOL_SIZE = 10;
 
@@ -64,7 +70,7 @@ export function createDataSource(database: DatabaseTarget): DataSource {
       synchronize: false,
       migrationsRun: false,
       logging: false,
-      applicationName: 'fieldfold',
+      applicationName: POSTGRES_APPLICATION_NAME,
       // A request waits at most 10 s for a free connection of the pool, then fails (503-like) instead of piling up.
       extra: { max: POSTGRES_POOL_SIZE, connectionTimeoutMillis: 10_000 },
     });

@@ -13,7 +13,10 @@ export class ReadLane {
   /** Runs `work` in its turn and resolves with its result. */
   run<T>(work: () => Promise<T>): Promise<T> {
     return new Promise<T>((resolve, reject) => {
-      this.queue.push(() => work().then(resolve, reject));
+      // Called inside a promise chain, so a `work` that throws before it returns a promise (a route reading a
+      // bad parameter as it builds the call) rejects its caller too, instead of escaping from setImmediate and
+      // leaving the lane stuck for every later read.
+      this.queue.push(() => Promise.resolve().then(work).then(resolve, reject));
       if (!this.running) this.next();
     });
   }

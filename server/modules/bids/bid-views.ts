@@ -1,5 +1,6 @@
 import type { EntityManager } from 'typeorm';
 import { PreparedSelect } from '../../lib/db/prepared-select';
+import { readTogether } from '../../lib/db/reads';
 import { Account } from '../accounts/account.entity';
 import { Block } from '../blocks/block.entity';
 import { Contract } from '../contracts/contract.entity';
@@ -43,10 +44,10 @@ export async function bidViews(em: EntityManager, bids: Bid[], knownBlocks: Bloc
   const known = new Set(knownBlocks.map((b) => b.id));
   const blockIds = [...new Set(bids.map((b) => b.blockId))].filter((id) => !known.has(id));
   const grazierIds = [...new Set(bids.map((b) => b.grazierId))];
-  const [blocks, graziers, records] = await Promise.all([
-    blockIds.length ? bidBlocks.many(em, { ids: blockIds }) : Promise.resolve([]),
-    bidGraziers.many(em, { ids: grazierIds }),
-    completedContracts(em, grazierIds),
+  const [blocks, graziers, records] = await readTogether(em, [
+    () => (blockIds.length ? bidBlocks.many(em, { ids: blockIds }) : Promise.resolve([])),
+    () => bidGraziers.many(em, { ids: grazierIds }),
+    () => completedContracts(em, grazierIds),
   ]);
   const blockById = new Map([...knownBlocks, ...blocks].map((b) => [b.id, b]));
   const grazierById = new Map(graziers.map((g) => [g.id, g]));

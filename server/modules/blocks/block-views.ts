@@ -1,6 +1,7 @@
 import type { EntityManager } from 'typeorm';
 import { PreparedSelect } from '../../lib/db/prepared-select';
 import { Account } from '../accounts/account.entity';
+import { readTogether } from '../../lib/db/reads';
 import { hasRole } from '../../lib/http/auth';
 import type { ServiceContext } from '../../lib/service-context';
 import { Bid } from '../bids/bid.entity';
@@ -135,11 +136,12 @@ export async function blockViews(ctx: ServiceContext, viewer: Account, blocks: B
   const ids = blocks.map((b) => b.id);
   const ownerIds = [...new Set(blocks.map((b) => b.ownerId))];
   const ownIds = blocks.filter((b) => isOwner(viewer, b)).map((b) => b.id);
-  const [owners, photos, myLiveBids, liveCounts] = await Promise.all([
-    viewOwners.many(em, { ids: ownerIds }),
-    viewPhotos.many(em, { ids }),
-    viewMyLiveBids.raw<{ id: string; blockId: string }>(em, { viewer: viewer.id, ids }),
-    ownIds.length === 0 ? Promise.resolve([]) : viewLiveCounts.raw<{ blockId: string; n: number }>(em, { ownIds }),
+  // Only what the views show: the owners' names, the viewer's own live bids, and live-bid counts for the owner.
+  const [owners, photos, myLiveBids, liveCounts] = await readTogether(em, [
+    () => viewOwners.many(em, { ids: ownerIds }),
+    () => viewPhotos.many(em, { ids }),
+    () => viewMyLiveBids.raw<{ id: string; blockId: string }>(em, { viewer: viewer.id, ids }),
+    () => (ownIds.length === 0 ? Promise.resolve([]) : viewLiveCounts.raw<{ blockId: string; n: number }>(em, { ownIds })),
   ]);
   const ownerById = new Map(owners.map((o) => [o.id, o]));
   const myLiveBidByBlock = new Map(myLiveBids.map((x) => [x.blockId, x.id]));

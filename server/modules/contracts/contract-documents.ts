@@ -1,3 +1,4 @@
+import { readTogether } from '../../lib/db/reads';
 import { inOpenTransaction, inTransaction } from '../../lib/db/transaction';
 import type { ServiceContext } from '../../lib/service-context';
 import type { GrazingLogPdfData, PdfSignature } from '../../lib/pdf/pdf-renderer';
@@ -142,10 +143,10 @@ export async function grazingLogPdfData(ctx: ServiceContext, contract: Contract,
   const { terms } = await termsInForce(em, contract);
   const owner = await em.findOneByOrFail(Account, { id: contract.grazierId });
   const [view] = await contractViews(em, [contract], { viewer: owner, detail: true });
-  const [entries, figures, signatures] = await Promise.all([
-    allEntryViews(ctx, contract, terms),
-    figuresOf(em, contract, terms, ctx.now()),
-    em.find(ContractSignature, { where: { contractId: contract.id }, order: { signedAt: 'ASC' } }),
+  const [entries, figures, signatures] = await readTogether(em, [
+    () => allEntryViews(ctx, contract, terms),
+    () => figuresOf(em, contract, terms, ctx.now()),
+    () => em.find(ContractSignature, { where: { contractId: contract.id }, order: { signedAt: 'ASC' } }),
   ]);
   return grazingLogDocumentData(
     view,

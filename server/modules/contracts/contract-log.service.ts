@@ -1,5 +1,6 @@
 import crypto from 'node:crypto';
 import type { EntityManager } from 'typeorm';
+import { readTogether } from '../../lib/db/reads';
 import { AppError } from '../../lib/errors/app-error';
 import { check } from '../../lib/http/validate';
 import type { LinkViewer } from '../../lib/http/auth';
@@ -227,7 +228,10 @@ const entryById = new PreparedSelect((em) => em.createQueryBuilder(LogEntry, 'e'
 
 async function entryViews(ctx: ServiceContext, em: EntityManager, contract: Contract, terms: ContractTerms, entries: LogEntry[], viewer: LinkViewer): Promise<LogEntryView[]> {
   if (entries.length === 0) return [];
-  const [people, photos] = await Promise.all([partyNames.raw<{ id: string; name: string }>(em, { ids: [contract.growerId, contract.grazierId] }), entryPhotos.many(em, { ids: entries.map((e) => e.id) })]);
+  const [people, photos] = await readTogether(em, [
+    () => partyNames.raw<{ id: string; name: string }>(em, { ids: [contract.growerId, contract.grazierId] }),
+    () => entryPhotos.many(em, { ids: entries.map((e) => e.id) }),
+  ]);
   const nameOf = new Map(people.map((p) => [p.id, p.name]));
   const photosOf = new Map<string, LogPhotoView[]>();
   for (const p of photos) {

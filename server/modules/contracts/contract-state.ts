@@ -1,5 +1,6 @@
 import crypto from 'node:crypto';
 import type { EntityManager } from 'typeorm';
+import { readTogether } from '../../lib/db/reads';
 import { AppError } from '../../lib/errors/app-error';
 import { Account } from '../accounts/account.entity';
 import { Block } from '../blocks/block.entity';
@@ -42,7 +43,7 @@ function termsParty(a: Account | null | undefined): TermsParty {
 
 /** Version 1 of the terms from the block and the winning bid, with the parties as their accounts name them now. */
 export async function awardTerms(em: EntityManager, contractId: string, block: Block, growerId: string, grazierId: string, bid: BidTermsView): Promise<ContractTerms> {
-  const [grower, grazier] = await Promise.all([em.findOneBy(Account, { id: growerId }), em.findOneBy(Account, { id: grazierId })]);
+  const [grower, grazier] = await readTogether(em, [() => em.findOneBy(Account, { id: growerId }), () => em.findOneBy(Account, { id: grazierId })]);
   return termsOfAward(contractId, block, grower, grazier, bid);
 }
 
@@ -149,10 +150,10 @@ export async function movesOf(em: EntityManager, contractId: string): Promise<Ar
  * with the number of moves (a few a day), not with the whole log.
  */
 export async function figuresOf(em: EntityManager, contract: Contract, terms: ContractTerms, nowMs: number): Promise<LogFiguresResult> {
-  const [moves, [losses], [residual]] = await Promise.all([
-    movesOf(em, contract.id),
-    lossesQuery.raw<{ n: number | string }>(em, { id: contract.id }),
-    residualQuery.raw<{ h: number }>(em, { id: contract.id }),
+  const [moves, [losses], [residual]] = await readTogether(em, [
+    () => movesOf(em, contract.id),
+    () => lossesQuery.raw<{ n: number | string }>(em, { id: contract.id }),
+    () => residualQuery.raw<{ h: number }>(em, { id: contract.id }),
   ]);
   return logFigures({
     moves: moves.map(({ at, change }) => ({ at, change })),

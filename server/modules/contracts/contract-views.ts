@@ -1,4 +1,5 @@
 import { In, type EntityManager } from 'typeorm';
+import { readTogether } from '../../lib/db/reads';
 import { Account } from '../accounts/account.entity';
 import { Block } from '../blocks/block.entity';
 import { blockSummary, partyOf as partyView } from '../blocks/block-views';
@@ -95,11 +96,11 @@ export interface ContractViewOptions {
 export async function contractViews(em: EntityManager, contracts: Contract[], opts: ContractViewOptions = {}): Promise<ContractView[]> {
   if (contracts.length === 0) return [];
   const ids = contracts.map((c) => c.id);
-  const [blocks, signatures, amendments, signOffs] = await Promise.all([
-    em.findBy(Block, { id: In([...new Set(contracts.map((c) => c.blockId))]) }),
-    em.find(ContractSignature, { where: { contractId: In(ids) }, order: { signedAt: 'ASC' } }),
-    em.find(ContractAmendment, { where: opts.detail ? { contractId: In(ids) } : { contractId: In(ids), status: 'proposed' }, order: { version: 'ASC' } }),
-    em.find(SignOff, { where: { contractId: In(ids) }, order: { round: 'ASC' } }),
+  const [blocks, signatures, amendments, signOffs] = await readTogether(em, [
+    () => em.findBy(Block, { id: In([...new Set(contracts.map((c) => c.blockId))]) }),
+    () => em.find(ContractSignature, { where: { contractId: In(ids) }, order: { signedAt: 'ASC' } }),
+    () => em.find(ContractAmendment, { where: opts.detail ? { contractId: In(ids) } : { contractId: In(ids), status: 'proposed' }, order: { version: 'ASC' } }),
+    () => em.find(SignOff, { where: { contractId: In(ids) }, order: { round: 'ASC' } }),
   ]);
   const people = await em.findBy(Account, {
     id: In([...new Set([...contracts.flatMap((c) => [c.growerId, c.grazierId]), ...amendments.map((a) => a.proposedById)])]),

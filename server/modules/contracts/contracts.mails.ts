@@ -1,4 +1,5 @@
 import type { EntityManager } from 'typeorm';
+import { readTogether } from '../../lib/db/reads';
 import { composeMail } from '../../lib/mail/compose';
 import type { AppLinks } from '../../lib/mail/links';
 import type { MailMessage } from '../../lib/mail/mail-port';
@@ -25,7 +26,7 @@ export interface ContractPeople {
 
 export async function peopleOf(em: EntityManager, contract: Contract): Promise<ContractPeople> {
   const find = (id: string) => em.findOne(Account, { where: { id }, select: { id: true, email: true, name: true } });
-  const [grower, grazier] = await Promise.all([find(contract.growerId), find(contract.grazierId)]);
+  const [grower, grazier] = await readTogether(em, [() => find(contract.growerId), () => find(contract.grazierId)]);
   return { grower, grazier };
 }
 

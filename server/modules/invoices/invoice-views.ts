@@ -1,5 +1,6 @@
 import type { EntityManager } from 'typeorm';
 import { PreparedSelect } from '../../lib/db/prepared-select';
+import { readTogether } from '../../lib/db/reads';
 import { Account } from '../accounts/account.entity';
 import { Block } from '../blocks/block.entity';
 import { blockSummary, partyOf } from '../blocks/block-views';
@@ -50,11 +51,11 @@ export async function invoiceViews(em: EntityManager, ctx: ViewContext, viewer: 
   if (invoices.length === 0) return [];
   const contracts = await viewContracts.many(em, { ids: [...new Set(invoices.map((i) => i.contractId))] });
   const contractById = new Map(contracts.map((c) => [c.id, c]));
-  const [blocks, people, docs] = await Promise.all([
-    viewBlocks.many(em, { ids: [...new Set(contracts.map((c) => c.blockId))] }),
-    viewPeople.many(em, { ids: [...new Set(invoices.flatMap((i) => [i.growerId, i.grazierId]))] }),
+  const [blocks, people, docs] = await readTogether(em, [
+    () => viewBlocks.many(em, { ids: [...new Set(contracts.map((c) => c.blockId))] }),
+    () => viewPeople.many(em, { ids: [...new Set(invoices.flatMap((i) => [i.growerId, i.grazierId]))] }),
     // The newest stored PDF of each (documents keep every version; the view names the latest).
-    viewPdfs.many(em, { ids: invoices.map((i) => i.id) }),
+    () => viewPdfs.many(em, { ids: invoices.map((i) => i.id) }),
   ]);
   const blockById = new Map(blocks.map((b) => [b.id, b]));
   const pdfOf = new Map<string, Document>();
