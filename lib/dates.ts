@@ -89,17 +89,23 @@ interface WallTime {
 }
 
 function wallTime(instantMs: number, timeZone: string): WallTime {
-  const parts = formatterFor(timeZone).formatToParts(new Date(instantMs));
-  const get = (type: Intl.DateTimeFormatPartTypes) => Number(parts.find((p) => p.type === type)?.value);
-  return {
-    // Years of the common era only (the ISO parser accepts four-digit years; grazing logs are modern).
-    year: get('year'),
-    month: get('month'),
-    day: get('day'),
-    hour: get('hour') % 24,
-    minute: get('minute'),
-    second: get('second'),
-  };
+  // Years of the common era only (the ISO parser accepts four-digit years; grazing logs are modern).
+  const w: WallTime = { year: 0, month: 0, day: 0, hour: 0, minute: 0, second: 0 };
+  for (const p of formatterFor(timeZone).formatToParts(new Date(instantMs))) {
+    switch (p.type) {
+      case 'year':
+      case 'month':
+      case 'day':
+      case 'minute':
+      case 'second':
+        w[p.type] = Number(p.value);
+        break;
+      case 'hour':
+        w.hour = Number(p.value) % 24;
+        break;
+    }
+  }
+  return w;
 }
 
 function utcFromWall(w: WallTime): number {
@@ -132,6 +138,27 @@ export function localDateKey(instantMs: number, timeZone: string): string {
   return dateKeyOf(w.year, w.month, w.day);
 }
 
+/** Local UTC offsets lie within this (the tz database has −12 h … +14 h); a bound for the shortcut below. */
+const MAX_OFFSET_MS = 18 * 3_600_000;
+
+/**
+ * localDateKey(instantMs, timeZone) > dateKey, without asking Intl for instants more than a day from that
+ * date's end (whatever the zone's offset, their local date is certain): a log compares every entry with its
+ * end and out-by dates, and nearly all of them are days away.
+ */
+export function isAfterLocalDay(instantMs: number, dateKey: string, timeZone: string): boolean {
+  // Midnight after dateKey as if it were UTC: local wall time at instantMs is instantMs + offset.
+  const wallEnd = parseDateKeyUtc(dateKey) + MS_PER_DAY;
+  if (instantMs + MAX_OFFSET_MS < wallEnd) return false;
+  if (instantMs - MAX_OFFSET_MS >= wallEnd) return true;
+  return localDateKey(instantMs, timeZone) > dateKey;
+}
+
+function parseDateKeyUtc(dateKey: string): number {
+  const { year, month, day } = parseDateKey(dateKey);
+  return utcFromWall({ year, month, day, hour: 0, minute: 0, second: 0 });
+}
+
 function parseDateKey(dateKey: string): { year: number; month: number; day: number } {
   const m = DATE_KEY.exec(dateKey);
   if (!m) throw new GrazingInputError('date', 'Date must look like 2027-01-15');
@@ -161,6 +188,21 @@ export function addDaysToKey(dateKey: string, days: number): string {
  * Where midnight happens twice (a fall-back at 01:00 to 00:00), the earlier one starts the day.
  */
 export function startOfLocalDay(dateKey: string, timeZone: string): number {
+  const key = `${timeZone} ${dateKey}`;
+  let start = dayStarts.get(key);
+  if (start === undefined) {
+    start = findStartOfLocalDay(dateKey, timeZone);
+    // A log's figures and its PDF ask for the same few hundred days again and again: keep the answers (bounded).
+    if (dayStarts.size >= MAX_DAY_STARTS) dayStarts.clear();
+    dayStarts.set(key, start);
+  }
+  return start;
+}
+
+const MAX_DAY_STARTS = 20_000;
+const dayStarts = new Map<string, number>();
+
+function findStartOfLocalDay(dateKey: string, timeZone: string): number {
   requireTimeZone(timeZone);
   const { year, month, day } = parseDateKey(dateKey);
   const wall = utcFromWall({ year, month, day, hour: 0, minute: 0, second: 0 });

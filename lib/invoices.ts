@@ -85,6 +85,8 @@ export interface TotalsItem {
   totalCents: number;
   /** The day it was paid, 'YYYY-MM-DD', or null. */
   paidDay: string | null;
+  /** How many invoices this line stands for (alike in the three fields above; totalCents is their sum); default 1. */
+  count?: number;
 }
 
 /**
@@ -94,16 +96,17 @@ export interface TotalsItem {
 export function invoiceTotals(items: readonly TotalsItem[], season: string): InvoiceTotals {
   const t: InvoiceTotals = { outstandingCents: 0, outstandingCount: 0, overdueCents: 0, overdueCount: 0, paidThisSeasonCents: 0, paidThisSeasonCount: 0, season };
   for (const i of items) {
+    const n = i.count ?? 1;
     if (i.displayStatus === 'draft' || i.displayStatus === 'sent' || i.displayStatus === 'overdue') {
       t.outstandingCents += i.totalCents;
-      t.outstandingCount += 1;
+      t.outstandingCount += n;
       if (i.displayStatus === 'overdue') {
         t.overdueCents += i.totalCents;
-        t.overdueCount += 1;
+        t.overdueCount += n;
       }
     } else if (i.displayStatus === 'paid' && i.paidDay !== null && seasonOf(i.paidDay) === season) {
       t.paidThisSeasonCents += i.totalCents;
-      t.paidThisSeasonCount += 1;
+      t.paidThisSeasonCount += n;
     }
   }
   return t;

@@ -14,7 +14,7 @@ import { performance } from 'node:perf_hooks';
 import { buildIfStale, buildServer, buildWeb, ensureDependencies, freePort, root, run, runTs, startServer } from './lib.mjs';
 import { benchLoad } from './bench/load.mjs';
 import { writeBlankApp } from './bench/blank-app.mjs';
-import { coldLoad, PHONE, UNTHROTTLED } from './bench/cold-load.mjs';
+import { coldContent, coldLoad, PHONE, UNTHROTTLED } from './bench/cold-load.mjs';
 import { startPostgres } from './postgres.mjs';
 
 const enginesArg = process.argv.slice(2).find((a, i, all) => a.startsWith('--engines') && (a.includes('=') || all[i + 1]));
@@ -211,6 +211,24 @@ try {
     const verdict = (r, budget) => `${r.toFixed(2)}× (budget ≤ ${budget}×: ${r <= budget ? 'within' : 'OVER'})`;
     row('phone: Fieldfold paint ÷ blank static paint', verdict(paintRatio, BUDGET.paint));
     row('phone: Fieldfold usable ÷ blank single usable', verdict(usableRatio, BUDGET.usable));
+
+    // The grazing log from the truck, cold: the grazier signed in earlier (the token and account where the app
+    // keeps them, hooks/auth/token-storage.web.ts), nothing else cached, the demo's stay grazing now. First content
+    // = the first log row, or the "no entries yet" text.
+    const signIn = await (await post('/api/auth/login', { email: 'wade@calder.example', password: 'calder-valley-demo' })).json();
+    const mine = await (await fetch(`${base}/api/contracts`, { headers: { Authorization: `Bearer ${signIn.token}` } })).json();
+    const grazing = mine.items.find((c) => c.status === 'grazing');
+    if (!grazing) throw new Error('bench: the demo has no contract grazing now');
+    const storage = { 'fieldfold.token': signIn.token, 'fieldfold.account': JSON.stringify(signIn.user) };
+    const logRuns = [];
+    for (let i = 0; i < RUNS; i++) {
+      logRuns.push(await coldContent(chromium, `${base}/contracts/${grazing.id}/log`, PHONE, { storage, selector: '[data-testid^="log-entry-"], [data-testid="log-empty"]' }));
+    }
+    const firstContent = logRuns.map((x) => x.content);
+    row(
+      `phone: the log screen cold, time to first content (median of ${RUNS})`,
+      `${ms(median(firstContent))} (${ms(Math.min(...firstContent))}–${ms(Math.max(...firstContent))}; ${kB(median(logRuns.map((x) => x.bytes)))} received)`,
+    );
   } else row('first screen figures', 'skipped: /usr/bin/chromium missing');
 } finally {
   server.kill('SIGTERM');

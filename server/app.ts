@@ -67,6 +67,9 @@ export function serviceContext(deps: AppDeps): ServiceContext {
 export function createApp(deps: AppDeps): Express {
   const app = express();
   app.disable('x-powered-by');
+  // No ETag computed over every JSON answer (a hash of the whole body, each time): /api answers are no-store, so
+  // nothing revalidates them. The files keep their own validators (serve-static's, and the documents' SHA-256).
+  app.set('etag', false);
   // The rate limits count per client address: only a proxy we run may say what it is (X-Forwarded-For).
   app.set('trust proxy', deps.trustProxy ?? 'loopback');
   app.use(

@@ -1,7 +1,7 @@
 import { tz } from '@date-fns/tz';
 import { format } from 'date-fns';
 import fc from 'fast-check';
-import { addDaysToKey, isValidTimeZone, parseIsoInstant, timeZoneOffsetMs } from '../../lib/dates';
+import { addDaysToKey, isAfterLocalDay, isValidTimeZone, localDateKey, parseIsoInstant, timeZoneOffsetMs } from '../../lib/dates';
 
 describe('parseIsoInstant', () => {
   it('reads instants with an offset, agreeing with Date.parse', () => {
@@ -55,5 +55,21 @@ describe('calendar helpers', () => {
         },
       ),
     );
+  });
+});
+
+describe('isAfterLocalDay', () => {
+  test('It answers exactly localDateKey(t) > day, near the day’s end in any zone (DST days included) and far from it', () => {
+    const zones = ['America/Los_Angeles', 'Pacific/Kiritimati', 'Pacific/Pago_Pago', 'America/Santiago', 'Australia/Lord_Howe', 'UTC'];
+    const days = ['2027-03-14', '2027-11-07', '2026-09-06', '2027-04-04', '2027-01-15'];
+    for (const zone of zones) {
+      for (const day of days) {
+        const end = Date.parse(`${day}T00:00:00Z`) + 86_400_000;
+        // Every 20 minutes across two days either side of the UTC end of the day, and a few far away.
+        const instants = [end - 40 * 86_400_000, end + 40 * 86_400_000];
+        for (let t = end - 2 * 86_400_000; t <= end + 2 * 86_400_000; t += 20 * 60_000) instants.push(t, t + 59_999);
+        for (const t of instants) expect([zone, day, t, isAfterLocalDay(t, day, zone)]).toEqual([zone, day, t, localDateKey(t, zone) > day]);
+      }
+    }
   });
 });

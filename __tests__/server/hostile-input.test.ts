@@ -213,7 +213,7 @@ const TARGETS: Target[] = [
   },
   { route: 'POST /api/contracts/:id/sign-off', who: 'party', input: 'json', at: LOG_NOW, setup: async () => ({ path: `/api/contracts/${(await w.grazed()).contractId}/sign-off`, body: { action: 'propose', comment: 'All out on the 20th' } }) },
   { route: 'POST /api/contracts/:id/invoice', who: 'party', input: 'json', setup: async () => ({ path: `/api/contracts/${(await w.agreed()).contractId}/invoice`, body: { paymentTermsDays: 14 } }) },
-  { route: 'GET /api/invoices', who: 'party', input: 'query', setup: async () => ({ path: '/api/invoices', query: { side: 'receivable' } }) },
+  { route: 'GET /api/invoices', who: 'party', input: 'query', setup: async () => ({ path: '/api/invoices', query: { side: 'receivable', limit: '10' } }) },
   {
     route: 'GET /api/invoices/:id/pdf',
     who: 'out',

@@ -4,6 +4,7 @@ import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import Stripe from 'stripe';
+import type request from 'supertest';
 import { makeInvoicingApp, WEBHOOK_SECRET } from '../helpers/invoicing';
 import { chargeLines } from '../../lib/money';
 import { Contract } from '../../server/modules/contracts/contract.entity';
@@ -426,6 +427,60 @@ describe('GET /api/invoices and the PDF', () => {
     expect(late.body.totals).toMatchObject({ overdueCents: 36_000, overdueCount: 1 });
     expect(late.body.items.find((i: { id: string }) => i.id === b.invoice.id).displayStatus).toBe('overdue');
     expect((await t.api().get('/api/invoices?side=sideways').set(greta.auth)).status).toBe(400);
+  });
+
+  test('When the grower has more invoices than a page, then they come a page at a time in due order (date, number, id), with the totals and the count of every page; a cursor or limit the API did not give is a 400 naming it', async () => {
+    const greta = await t.grower('Greta Olsen');
+    const wade = await t.grazier('Wade Kellner');
+    const mirela = await t.grazier('Mirela Haas');
+    // Two graziers' sequences to one grower (their numbers collide: the id breaks the tie), due on three days.
+    const made: Array<{ id: string; dueDate: string; number: number; totalCents: number }> = [];
+    for (const [grazier, paymentTermsDays, headDays] of [
+      [wade, 14, 1000],
+      [mirela, 14, 2000],
+      [wade, 0, 3000],
+      [mirela, 30, 4000],
+      [wade, 14, 5000],
+      [mirela, 0, 6000],
+    ] as const) {
+      const c = await t.agreedContract({ grower: greta, grazier, headDays });
+      const res = await t.api().post(`/api/contracts/${c.contractId}/invoice`).set(grazier.auth).send({ paymentTermsDays });
+      expect(res.status).toBe(201);
+      made.push(res.body.invoice);
+    }
+    await t.api().post(`/api/invoices/${made[1].id}/pay`).set(greta.auth).send({ paymentMethod: 'pm_card_visa' });
+    const inOrder = [...made].sort((a, b) => (a.dueDate < b.dueDate ? -1 : a.dueDate > b.dueDate ? 1 : a.number - b.number || (a.id < b.id ? -1 : 1))).map((i) => i.id);
+
+    const whole = await t.api().get('/api/invoices?limit=100').set(greta.auth);
+    expect(whole.status).toBe(200);
+    expect(whole.body.items.map((i: { id: string }) => i.id)).toEqual(inOrder);
+    expect(whole.body).toMatchObject({ total: 6, nextCursor: null });
+
+    const pages: string[][] = [];
+    let cursor: string | null = null;
+    do {
+      const res: request.Response = await t.api().get(`/api/invoices?limit=4${cursor ? `&cursor=${cursor}` : ''}`).set(greta.auth);
+      expect(res.status).toBe(200);
+      expect(res.body.totals).toEqual(whole.body.totals);
+      expect(res.body.total).toBe(6);
+      pages.push(res.body.items.map((i: { id: string }) => i.id));
+      cursor = res.body.nextCursor;
+    } while (cursor);
+    expect(pages.map((p) => p.length)).toEqual([4, 2]);
+    expect(pages.flat()).toEqual(inOrder);
+    // The totals count every page: five owed, one paid this season.
+    expect(whole.body.totals).toMatchObject({ outstandingCount: 5, paidThisSeasonCount: 1, paidThisSeasonCents: made[1].totalCents });
+    // The default page is 25: all six here.
+    expect((await t.api().get('/api/invoices').set(greta.auth)).body.items).toHaveLength(6);
+
+    const forged = await t.api().get(`/api/invoices?cursor=${Buffer.from('["x"]').toString('base64url')}`).set(greta.auth);
+    expect(forged.status).toBe(400);
+    expect(forged.body.error.fields).toHaveProperty('cursor');
+    for (const limit of ['0', '101', 'ten']) {
+      const bad = await t.api().get(`/api/invoices?limit=${limit}`).set(greta.auth);
+      expect(bad.status).toBe(400);
+      expect(bad.body.error.fields).toHaveProperty('limit');
+    }
   });
 
   test('When either party downloads the PDF, then it is the stored file with its SHA-256 and its text holds the lines and the total; others get 404', async () => {

@@ -3,7 +3,7 @@ import { StyleSheet, View } from 'react-native';
 import type { InvoiceSide } from '@/lib/schemas/invoice';
 import { useInvoices } from '@/hooks/api/invoices';
 import { useLayout } from '@/hooks/use-layout';
-import { Chip, EmptyState, ErrorState, LoadingState, Text } from '@/components/ui';
+import { Button, Chip, EmptyState, ErrorState, LoadingState, Text } from '@/components/ui';
 import { space } from '@/components/ui/theme';
 import { InvoiceCard } from './invoice-card';
 import { InvoiceTable } from './invoice-table';
@@ -12,7 +12,10 @@ import { INVOICE_SORT_KEYS, sortInvoices, type InvoiceSortKey, type SortDir } fr
 
 const PHONE_SORTS: InvoiceSortKey[] = ['due', 'amount', 'status', 'number'];
 
-/** The money view of one side: totals, then the invoices — cards on a phone, a sortable table from 1024 px. */
+/**
+ * The money view of one side: totals over every invoice, then the invoices a page at a time — cards on a phone, a
+ * sortable table from 1024 px (sorted among those shown; "Show more" fetches the next page, due first).
+ */
 export function InvoiceList({ side }: { side: InvoiceSide }) {
   const invoices = useInvoices(side);
   const { isWide } = useLayout();
@@ -20,8 +23,8 @@ export function InvoiceList({ side }: { side: InvoiceSide }) {
   const onSort = (key: InvoiceSortKey) => setSort((s) => ({ key, dir: s.key === key && s.dir === 'asc' ? 'desc' : 'asc' }));
 
   if (invoices.isPending) return <LoadingState label="Loading invoices…" />;
-  if (invoices.isError) return <ErrorState message={invoices.error.message} onRetry={() => void invoices.refetch()} />;
-  const { items, totals } = invoices.data;
+  if (invoices.isError || !invoices.list) return <ErrorState message={invoices.error?.message ?? 'Could not load the invoices'} onRetry={() => void invoices.refetch()} />;
+  const { items, totals, total } = invoices.list;
   if (!items.length) {
     return (
       <EmptyState title="No invoices yet">
@@ -37,7 +40,7 @@ export function InvoiceList({ side }: { side: InvoiceSide }) {
     <View style={styles.col}>
       <InvoiceTotalsRow totals={totals} side={side} />
       {isWide ? (
-        <InvoiceTable items={sorted} sort={sort} onSort={onSort} totalCents={listed} />
+        <InvoiceTable items={sorted} sort={sort} onSort={onSort} totalCents={listed} of={total} />
       ) : (
         <>
           <View style={styles.sorts} role="group" aria-label="Sort invoices">
@@ -58,6 +61,9 @@ export function InvoiceList({ side }: { side: InvoiceSide }) {
           ))}
         </>
       )}
+      {invoices.hasNextPage ? (
+        <Button title={`Show more invoices (${items.length} of ${total} shown)`} variant="secondary" loading={invoices.isFetchingNextPage} onPress={() => void invoices.fetchNextPage()} />
+      ) : null}
     </View>
   );
 }

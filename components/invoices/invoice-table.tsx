@@ -27,7 +27,8 @@ function Header({ k, sort, onSort, flex, align, label }: { k: InvoiceSortKey; so
 }
 
 /** From 1024 px: every invoice on one row, sortable by each column, with the total under the amounts. */
-export function InvoiceTable({ items, sort, onSort, totalCents }: { items: InvoiceView[]; sort: Sort; onSort: (k: InvoiceSortKey) => void; totalCents: number }) {
+/** `of`: how many invoices the side holds in all (the table shows the pages fetched so far). */
+export function InvoiceTable({ items, sort, onSort, totalCents, of }: { items: InvoiceView[]; sort: Sort; onSort: (k: InvoiceSortKey) => void; totalCents: number; of: number }) {
   const side = items[0]?.viewerSide ?? 'receivable';
   return (
     <View style={styles.table} role="table" aria-label="Invoices">
@@ -78,7 +79,7 @@ export function InvoiceTable({ items, sort, onSort, totalCents }: { items: Invoi
       <View style={[styles.tr, styles.tfoot]} role="row">
         <View style={[styles.td, { flex: 8.7 }]}>
           <Text variant="label">
-            {items.length} invoice{items.length === 1 ? '' : 's'}
+            {items.length < of ? `${items.length} of ${of} invoices shown` : `${items.length} invoice${items.length === 1 ? '' : 's'}`}
           </Text>
         </View>
         <View style={[styles.td, { flex: 1.2 }]}>

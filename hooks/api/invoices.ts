@@ -1,5 +1,5 @@
-import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import type { CreateInvoiceInput, InvoiceListView, InvoiceSide, InvoiceView } from '@/lib/schemas/invoice';
+import { infiniteQueryOptions, queryOptions, useInfiniteQuery, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { DEFAULT_INVOICE_PAGE, type CreateInvoiceInput, type InvoiceListView, type InvoiceSide, type InvoiceTotals, type InvoiceView } from '@/lib/schemas/invoice';
 import type { TestPaymentMethodId } from '@/lib/payments';
 import { api, queryString } from './client';
 import { staleTimes } from './query-client';
@@ -21,12 +21,22 @@ function isBusy(inv: InvoiceView | undefined): boolean {
   return !!inv && (inv.status === 'draft' || inv.payment.inProgress);
 }
 
+/** A season's invoices of one side come a page at a time, due first; `fetchNextPage` reads the next. */
 export const invoicesQueryOptions = (side: InvoiceSide) =>
-  queryOptions({
+  infiniteQueryOptions({
     queryKey: invoiceKeys.list(side),
-    queryFn: () => api<InvoiceListView>(`/invoices${queryString({ side })}`),
+    queryFn: ({ pageParam }) => api<InvoiceListView>(`/invoices${queryString({ side, limit: DEFAULT_INVOICE_PAGE, cursor: pageParam || undefined })}`),
+    initialPageParam: '',
+    getNextPageParam: (last) => last.nextCursor || undefined,
     staleTime: staleTimes.list,
   });
+
+/** The invoices fetched so far, with the totals and count over the whole side (the newest page's). */
+export interface InvoiceListPages {
+  items: InvoiceView[];
+  totals: InvoiceTotals;
+  total: number;
+}
 
 export const invoiceQueryOptions = (id: string) =>
   queryOptions({
@@ -36,7 +46,11 @@ export const invoiceQueryOptions = (id: string) =>
   });
 
 export function useInvoices(side: InvoiceSide) {
-  return useQuery({ ...invoicesQueryOptions(side), refetchInterval: (q) => (q.state.data?.items.some(isBusy) ? INVOICE_BUSY_POLL_MS : false) });
+  const q = useInfiniteQuery({ ...invoicesQueryOptions(side), refetchInterval: (q) => (q.state.data?.pages.some((p) => p.items.some(isBusy)) ? INVOICE_BUSY_POLL_MS : false) });
+  const pages = q.data?.pages ?? [];
+  const last = pages.at(-1);
+  const list: InvoiceListPages | undefined = last ? { items: pages.flatMap((p) => p.items), totals: last.totals, total: last.total } : undefined;
+  return { ...q, list };
 }
 
 export function useInvoice(id: string | undefined) {

@@ -8,6 +8,7 @@ import type { AmendableTerm } from '../contract-terms';
 import type { BidTermsView } from './bid';
 import type { BlockSummary, PartyView } from './block';
 import { bool, day, int, line, num, paragraphs, rejectUnknown } from './fields';
+import { pageCursor, pageLimit as limitOf } from './paging';
 import { CHARGE_BASES, isValidQuantity, RATE_PATTERN } from '../money';
 import { parseIsoInstant } from '../dates';
 
@@ -152,17 +153,8 @@ export const MAX_CONTRACT_PAGE = 100;
 export const DEFAULT_LOG_PAGE = 50;
 export const DEFAULT_CONTRACT_PAGE = 25;
 
-const QUERY_INT = /^\d{1,6}$/;
-const pageLimit = (label: string) =>
-  yup
-    .number()
-    .transform((_v: unknown, original: unknown) => (original === undefined ? undefined : typeof original === 'string' && QUERY_INT.test(original) ? Number(original) : NaN))
-    .typeError(`${label} must be a whole number`)
-    .integer(`${label} must be a whole number`)
-    .min(1, `${label} must be at least 1`)
-    .max(MAX_CONTRACT_PAGE, `${label} must be at most ${MAX_CONTRACT_PAGE}`)
-    .optional();
-const cursor = yup.string().strict().typeError('Give cursor once').matches(/^[A-Za-z0-9_-]{1,200}$/, 'Cursor is not one this API gave').optional();
+const pageLimit = (label: string) => limitOf(label, MAX_CONTRACT_PAGE);
+const cursor = pageCursor;
 
 export const contractListQuerySchema = rejectUnknown(
   yup.object({

@@ -4,6 +4,7 @@ import { TEST_PAYMENT_METHOD_IDS, type TestPaymentMethodId } from '../payments';
 import type { BidService } from './bid';
 import type { BlockSummary, PartyView } from './block';
 import { rejectUnknown } from './fields';
+import { pageCursor, pageLimit } from './paging';
 
 // An invoice bills one contract's agreed sign-off, once. The grazier makes it; the server computes its lines with
 // lib/invoices.ts (the calculator's chargeLines), numbers it in the grazier's own sequence and creates it in the
@@ -69,11 +70,19 @@ export const INVOICE_SIDES = ['receivable', 'payable'] as const;
 /** receivable: invoices the viewer issued as grazier; payable: invoices the viewer owes as grower. */
 export type InvoiceSide = (typeof INVOICE_SIDES)[number];
 
+/** Largest page of GET /api/invoices, and the page it gives when none is asked for. */
+export const MAX_INVOICE_PAGE = 100;
+export const DEFAULT_INVOICE_PAGE = 25;
+
+/** A page of one side's invoices, due first (due date, then number); `cursor` is the last page's nextCursor. */
 export const invoiceListQuerySchema = rejectUnknown(
   yup.object({
     side: yup.string().strict().oneOf([...INVOICE_SIDES], 'Side must be receivable or payable').optional(),
+    limit: pageLimit('Limit', MAX_INVOICE_PAGE),
+    cursor: pageCursor,
   }),
 );
+export type InvoiceListQuery = yup.InferType<typeof invoiceListQuerySchema>;
 
 // ——— views ———
 
@@ -158,6 +167,12 @@ export interface InvoiceTotals {
 
 export interface InvoiceListView {
   side: InvoiceSide;
+  /** One page, due first. */
   items: InvoiceView[];
+  /** Over the whole side, every page. */
   totals: InvoiceTotals;
+  /** Invoices on this side, every page. */
+  total: number;
+  /** Pass as `cursor` for the next page; null on the last page. */
+  nextCursor: string | null;
 }

@@ -31,6 +31,23 @@ export function pageFields(maxPageSize: number) {
   };
 }
 
+const QUERY_INT = /^\d{1,6}$/;
+
+/** `limit` of a keyset-paged list (1 to `max`), given as query text. */
+export function pageLimit(label: string, max: number) {
+  return yup
+    .number()
+    .transform((_v: unknown, original: unknown) => (original === undefined ? undefined : typeof original === 'string' && QUERY_INT.test(original) ? Number(original) : NaN))
+    .typeError(`${label} must be a whole number`)
+    .integer(`${label} must be a whole number`)
+    .min(1, `${label} must be at least 1`)
+    .max(max, `${label} must be at most ${max}`)
+    .optional();
+}
+
+/** The opaque `cursor` a keyset-paged list gave as its `nextCursor`. */
+export const pageCursor = yup.string().strict().typeError('Give cursor once').matches(/^[A-Za-z0-9_-]{1,200}$/, 'Cursor is not one this API gave').optional();
+
 export interface Page<T> {
   items: T[];
   total: number;

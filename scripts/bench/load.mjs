@@ -9,6 +9,8 @@ import { createRequire } from 'node:module';
 import { performance } from 'node:perf_hooks';
 import autocannon from 'autocannon';
 import { freePort, root, startServer } from '../lib.mjs';
+import { PASSWORD, seedSeason } from './season.mjs';
+export { SEASON } from './season.mjs';
 
 const require = createRequire(import.meta.url);
 
@@ -17,12 +19,11 @@ export const BUDGETS = {
   readP95Ms: 50,
   ormOverRaw: 3,
   writeUnderLoadP95Ms: 50,
+  pdfMs: 150,
 };
 const CONNECTIONS = 20;
 const DURATION_S = 6;
 
-export const SEASON = { openBlocks: 10_000, otherBlocks: 2_000, bids: 50_000, contracts: 1_000, logEntries: 100_000, growers: 400, graziers: 300 };
-const PASSWORD = 'bench-season-password';
 
 // ——— figures ———
 
@@ -142,249 +143,11 @@ function replay(db, statements, n = 300) {
   return percentiles(times);
 }
 
-// ——— the season ———
-
-function dayKey(ms) {
-  return new Date(ms).toISOString().slice(0, 10);
-}
-function sqlTime(ms) {
-  return new Date(ms).toISOString().replace('T', ' ').replace('Z', '');
-}
-
-/** Deterministic pseudo-random numbers (mulberry32). */
-function prng(seed) {
-  let a = seed >>> 0;
-  const next = () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-  return { next, int: (lo, hi) => lo + Math.floor(next() * (hi - lo + 1)), pick: (xs) => xs[Math.floor(next() * xs.length)] };
-}
-
-/** An INSERT for `entity` built from TypeORM's own metadata and value conversion, so the bench never drifts from the schema. */
-function inserter(ds, db, entity) {
-  const meta = ds.getMetadata(entity);
-  const cols = meta.columns;
-  const stmt = db.prepare(`INSERT INTO "${meta.tableName}" (${cols.map((c) => `"${c.databaseName}"`).join(', ')}) VALUES (${cols.map(() => '?').join(', ')})`);
-  return (row) => stmt.run(cols.map((c) => ds.driver.preparePersistentValue(row[c.propertyName], c) ?? null));
-}
-
-/**
- * Writes the season straight into the database: migrations through the server's own data source, then on SQLite one
- * prepared statement per table inside one transaction, on PostgreSQL multi-row INSERTs of 500 rows in one
- * transaction. Block columns come from the service's own record builder. `target` is a SQLite file or a postgres:// URL.
- */
-export async function seedSeason(target, today) {
-  const dbFile = target;
-  const { openDatabase } = require(path.join(root, 'build/server/db/data-source.js'));
-  const { validBlockRecord } = require(path.join(root, 'build/server/modules/blocks/blocks.service.js'));
-  const { Account } = require(path.join(root, 'build/server/modules/accounts/account.entity.js'));
-  const { Block } = require(path.join(root, 'build/server/modules/blocks/block.entity.js'));
-  const { Bid } = require(path.join(root, 'build/server/modules/bids/bid.entity.js'));
-  const { Contract } = require(path.join(root, 'build/server/modules/contracts/contract.entity.js'));
-  const bcrypt = require('bcryptjs');
-  const ds = await openDatabase(dbFile);
-  const postgres = ds.options.type === 'postgres';
-  const db = postgres ? null : ds.driver.databaseConnection;
-  const r = prng(10_000);
-  const t0 = Date.parse(`${today}T12:00:00Z`);
-  const day = 86_400_000;
-  const hash = bcrypt.hashSync(PASSWORD, 10);
-
-  const accounts = [];
-  const person = (i, roles, extra = {}) => ({
-    id: crypto.randomUUID(),
-    email: `season-${i}@bench.example`,
-    passwordHash: hash,
-    name: `Season ${roles} ${i}`,
-    roles,
-    activeRole: null,
-    businessName: `Invented ${roles} ${i}`,
-    phone: null,
-    homePlace: null,
-    homeLatitude: null,
-    homeLongitude: null,
-    flockSpecies: null,
-    flockClass: null,
-    flockHeadCount: null,
-    flockBodyWeightLb: null,
-    createdAt: new Date(t0 - 400 * day),
-    updatedAt: new Date(t0 - 400 * day),
-    ...extra,
-  });
-  const growers = Array.from({ length: SEASON.growers }, (_, i) => person(i, 'grower'));
-  const graziers = Array.from({ length: SEASON.graziers }, (_, i) =>
-    person(SEASON.growers + i, 'grazier', {
-      homePlace: 'Yards',
-      homeLatitude: 34 + r.next() * 8,
-      homeLongitude: -123.5 + r.next() * 7,
-      flockSpecies: r.pick(['sheep', 'goats', 'mixed']),
-      flockClass: r.pick(['dry ewes', 'wethers', 'ewes with lambs']),
-      flockHeadCount: r.int(80, 2500),
-      flockBodyWeightLb: r.int(90, 170),
-    }),
-  );
-  // The two whose requests are measured: a grazier in the middle of the district with 600 dry ewes, and a grower.
-  graziers[0] = { ...graziers[0], email: 'grazier@bench.example', homeLatitude: 38, homeLongitude: -120, flockSpecies: 'sheep', flockClass: 'dry ewes', flockHeadCount: 600, flockBodyWeightLb: 150 };
-  growers[0] = { ...growers[0], email: 'grower@bench.example' };
-  accounts.push(...growers, ...graziers);
-
-  const blocks = [];
-  const total = SEASON.openBlocks + SEASON.otherBlocks;
-  for (let i = 0; i < total; i++) {
-    const start = t0 + r.int(-20, 150) * day;
-    const windowStart = dayKey(start);
-    const windowEnd = dayKey(start + r.int(14, 90) * day);
-    const outBy = dayKey(start + r.int(10, 100) * day);
-    const sprays = r.next() < 0.3 ? [{ product: 'Invented fungicide', appliedOn: dayKey(start - r.int(0, 30) * day), grazingRestrictionDays: r.pick([0, 7, 14, 21]), containsCopper: r.next() < 0.3 }] : [];
-    const body = {
-      name: `${r.pick(['North', 'South', 'River', 'Upper', 'Lower', 'Bench', 'Creek'])} ${r.pick(['walnut', 'almond', 'vineyard', 'cover crop', 'fallow', 'prune'])} block ${i}`,
-      crop: r.pick(['orchard', 'vineyard', 'row-crop cover', 'fallow', 'pasture']),
-      acres: r.pick([5, 10, 20, 36, 40, 80, 120, 160, 300]) + r.int(0, 9) / 4,
-      placeName: 'Invented district',
-      latitude: Number((34 + r.next() * 8).toFixed(5)),
-      longitude: Number((-123.5 + r.next() * 7).toFixed(5)),
-      timeZone: 'America/Los_Angeles',
-      forageMethod: 'direct',
-      lbDmPerAcre: r.int(600, 3500),
-      targetUtilizationPct: r.pick([35, 40, 45, 50]),
-      windowStart,
-      windowEnd,
-      outBy: outBy > windowStart ? outBy : windowEnd,
-      harvestDate: null,
-      sprayRecords: sprays,
-      waterOnSite: r.next() < 0.6,
-      perimeterFence: r.pick(['none', 'partial', 'full']),
-      truckAccess: r.next() < 0.8,
-      speciesAllowed: r.pick([['sheep'], ['goats'], ['sheep', 'goats']]),
-      youngPlantings: r.next() < 0.2,
-    };
-    const record = await validBlockRecord(body);
-    const created = t0 - r.int(1, 60 * 24 * 3600) * 1000;
-    const status = i < SEASON.openBlocks ? 'open' : i < SEASON.openBlocks + SEASON.contracts ? 'awarded' : r.pick(['draft', 'withdrawn']);
-    // The measured grower owns 25 blocks; the others share the rest.
-    const owner = i < 25 ? growers[0] : growers[1 + (i % (growers.length - 1))];
-    blocks.push({ id: crypto.randomUUID(), ownerId: owner.id, status, ...record, publishedAt: status === 'draft' ? null : new Date(created), awardedAt: status === 'awarded' ? new Date(t0) : null, withdrawnAt: null, createdAt: new Date(created), updatedAt: new Date(created) });
-  }
-
-  const bids = [];
-  const contracts = [];
-  const open = blocks.filter((b) => b.status === 'open');
-  const awarded = blocks.filter((b) => b.status === 'awarded');
-  const bidOn = (block, grazier, status) => {
-    const created = block.createdAt.getTime() + r.int(1, 3600 * 48) * 1000;
-    return {
-      id: crypto.randomUUID(),
-      blockId: block.id,
-      grazierId: grazier.id,
-      status,
-      basis: r.pick(['head-day', 'acre', 'flat']),
-      rate: r.pick(['0.18', '0.2', '0.25', '35', '1200']),
-      headCount: r.int(100, 1500),
-      species: block.speciesAllowed[0],
-      animalClass: block.speciesAllowed[0] === 'sheep' ? 'dry ewes' : 'wethers',
-      bodyWeightLb: r.int(100, 160),
-      startDate: block.windowStart,
-      endDate: block.windowEnd < block.outBy ? block.windowEnd : block.outBy,
-      services: ['fencing'],
-      note: null,
-      decidedAt: null,
-      createdAt: new Date(created),
-      updatedAt: new Date(created),
-    };
-  };
-  // The first open block of the measured grower carries 40 bids: the comparison a grower waits on.
-  const perBlock = (k) => (k === 0 ? 40 : 0);
-  let k = 0;
-  while (bids.length < SEASON.bids - SEASON.contracts) {
-    const block = open[k % open.length];
-    const round = Math.floor(k / open.length);
-    const n = perBlock(k) || 1;
-    for (let j = 0; j < n; j++) bids.push(bidOn(block, graziers[(k * 7 + round * 13 + j) % graziers.length], round === 0 || r.next() < 0.6 ? 'live' : r.pick(['declined', 'withdrawn'])));
-    k += 1;
-  }
-  for (let c = 0; c < SEASON.contracts; c++) {
-    const block = awarded[c];
-    const grazier = graziers[c % graziers.length];
-    const bid = { ...bidOn(block, grazier, 'accepted'), decidedAt: new Date(t0) };
-    bids.push(bid);
-    contracts.push({
-      id: crypto.randomUUID(),
-      blockId: block.id,
-      bidId: bid.id,
-      growerId: block.ownerId,
-      grazierId: grazier.id,
-      status: 'to-sign',
-      basis: bid.basis,
-      rate: bid.rate,
-      headCount: bid.headCount,
-      species: bid.species,
-      animalClass: bid.animalClass,
-      bodyWeightLb: bid.bodyWeightLb,
-      startDate: bid.startDate,
-      endDate: bid.endDate,
-      outBy: block.outBy,
-      services: bid.services,
-      acres: block.acres,
-      lbDmPerAcre: block.lbDmPerAcre,
-      targetUtilizationPct: block.targetUtilizationPct,
-      timeZone: block.timeZone,
-      // Columns the contract-signing migration added (NOT NULL with a default the prepared INSERT would not apply).
-      termsVersion: 1,
-      revision: 0,
-      createdAt: new Date(t0),
-      updatedAt: new Date(t0),
-    });
-  }
-  // Live bids must be one per grazier per block (a unique index holds it): drop repeats the rounds made.
-  const seen = new Set();
-  const uniqueBids = bids.filter((b) => {
-    if (b.status !== 'live') return true;
-    const key = `${b.blockId}/${b.grazierId}`;
-    if (seen.has(key)) return false;
-    seen.add(key);
-    return true;
-  });
-
-  const count = async (sql) => Number((await ds.query(sql))[0].n);
-  if (postgres) {
-    await ds.transaction(async (tx) => {
-      for (const [entity, rows] of [[Account, accounts], [Block, blocks], [Bid, uniqueBids], [Contract, contracts]]) {
-        for (let i = 0; i < rows.length; i += 500) await tx.createQueryBuilder().insert().into(entity).values(rows.slice(i, i + 500)).updateEntity(false).execute();
-      }
-    });
-    await ds.query('ANALYZE');
-  } else {
-    const insert = {
-      account: inserter(ds, db, Account),
-      block: inserter(ds, db, Block),
-      bid: inserter(ds, db, Bid),
-      contract: inserter(ds, db, Contract),
-    };
-    db.transaction(() => {
-      accounts.forEach(insert.account);
-      blocks.forEach(insert.block);
-      uniqueBids.forEach(insert.bid);
-      contracts.forEach(insert.contract);
-    })();
-    db.pragma('wal_checkpoint(TRUNCATE)');
-  }
-  const counts = {
-    openBlocks: await count(`SELECT COUNT(*) AS n FROM blocks WHERE status = 'open'`),
-    bids: await count('SELECT COUNT(*) AS n FROM bids'),
-    contracts: await count('SELECT COUNT(*) AS n FROM contracts'),
-  };
-  const logTable = postgres
-    ? (await ds.query(`SELECT table_name AS name FROM information_schema.tables WHERE table_schema = 'public' AND table_name LIKE '%log%'`)).map((x) => x.name)
-    : db.prepare(`SELECT name FROM sqlite_master WHERE type = 'table' AND name LIKE '%log%'`).all().map((x) => x.name);
-  await ds.destroy();
-  return { counts, logTable, grower: growers[0], grazier: graziers[0], bidBlock: open[0] };
-}
-
 // ——— the run ———
+
+const dayKey = (ms) => new Date(ms).toISOString().slice(0, 10);
+const count = (n) => n.toLocaleString('en-US');
+const PDF_RUNS = 12;
 
 /**
  * The season's load figures on one engine: SQLite in a throw-away DATA_DIR (the default), or PostgreSQL when
@@ -402,8 +165,12 @@ export async function benchLoad(row, { databaseUrl = null } = {}) {
   try {
     const s0 = performance.now();
     const dbFile = databaseUrl ?? path.join(dataDir, 'fieldfold.sqlite');
-    const season = await seedSeason(dbFile, today);
-    row('season seeded (straight into the database)', `${season.counts.openBlocks.toLocaleString('en-US')} open blocks, ${season.counts.bids.toLocaleString('en-US')} bids, ${season.counts.contracts.toLocaleString('en-US')} contracts in ${((performance.now() - s0) / 1000).toFixed(1)} s`);
+    const season = await seedSeason(dbFile, dataDir);
+    const n = season.counts;
+    row(
+      'season seeded (builders straight into the database, sign-off and invoices through the services)',
+      `${count(n.openBlocks)} open blocks, ${count(n.bids)} bids, ${count(n.contracts)} contracts (${Object.entries(n.byStatus).map(([k, v]) => `${v} ${k}`).join(', ')}), ${count(n.logEntries)} log entries, ${count(n.invoices)} invoices (${n.paid} paid; ${n.growerInvoices} to the measured grower) in ${((performance.now() - s0) / 1000).toFixed(1)} s`,
+    );
 
     const port = await freePort();
     server = await startServer({ PORT: String(port), HOST: '127.0.0.1', DATA_DIR: dataDir, NODE_ENV: 'production', SEED_DEMO: 'false', ...(databaseUrl ? { DATABASE_URL: databaseUrl } : {}) }, { quiet: true });
@@ -415,13 +182,19 @@ export async function benchLoad(row, { databaseUrl = null } = {}) {
     };
     const grazier = await login('grazier@bench.example');
     const grower = await login('grower@bench.example');
+    const measured = season.measured.id;
 
     // The server's own service code in this process, on the same file, to capture each request's SQL.
     const { openDatabase } = require(path.join(root, 'build/server/db/data-source.js'));
     const { registerSqlFunctions } = require(path.join(root, 'build/server/db/sql-functions.js'));
+    const { serviceContext } = require(path.join(root, 'build/server/app.js'));
     const { listBlocks } = require(path.join(root, 'build/server/modules/blocks/blocks.service.js'));
     const { listBlockBids } = require(path.join(root, 'build/server/modules/bids/bids.service.js'));
+    const { listLog } = require(path.join(root, 'build/server/modules/contracts/contract-log.service.js'));
+    const { listInvoices } = require(path.join(root, 'build/server/modules/invoices/invoices.service.js'));
+    const { grazingLogPdf, grazingLogPdfData } = require(path.join(root, 'build/server/modules/contracts/contract-documents.js'));
     const { Account } = require(path.join(root, 'build/server/modules/accounts/account.entity.js'));
+    const { Contract } = require(path.join(root, 'build/server/modules/contracts/contract.entity.js'));
     const ds = await openDatabase(dbFile);
     let raw;
     let replayRaw;
@@ -436,7 +209,15 @@ export async function benchLoad(row, { databaseUrl = null } = {}) {
       registerSqlFunctions(raw);
       replayRaw = async (statements) => replay(raw, statements, 1);
     }
-    const ctx = { ds, now: Date.now, tokenSecret: 'bench-only-secret-long-enough-to-sign', log: () => {}, links: null, outbox: null, photos: null };
+    const ctx = serviceContext({
+      dataSource: ds,
+      tokens: { secret: 'bench-only-secret-long-enough-to-sign', ttl: '1h' },
+      uploadsDir: path.join(dataDir, 'uploads'),
+      documentsDir: path.join(dataDir, 'documents'),
+      outbox: { kick() {} },
+      log: () => {},
+      payments: null,
+    });
     const account = (email) => ds.getRepository(Account).findOneByOrFail({ email });
     const [grazierAccount, growerAccount] = [await account('grazier@bench.example'), await account('grower@bench.example')];
 
@@ -451,13 +232,32 @@ export async function benchLoad(row, { databaseUrl = null } = {}) {
         headers: grower,
         call: (q) => listBlockBids(ctx, growerAccount, season.bidBlock.id, q),
       },
+      {
+        label: "a contract's log with running totals (120 days, first page)",
+        path: `/api/contracts/${measured}/log`,
+        query: {},
+        headers: grazier,
+        call: (q) => listLog(ctx, grazierAccount, measured, q),
+      },
+      {
+        label: `the grower's invoice list (first page of ${n.growerInvoices})`,
+        path: '/api/invoices',
+        query: {},
+        headers: grower,
+        call: (q) => listInvoices(ctx, growerAccount, q),
+        check: (body) => {
+          const paged = Array.isArray(body.items) && body.items.length < n.growerInvoices && typeof body.nextCursor === 'string';
+          budget('  the invoice list comes a page at a time', `${body.items?.length} of ${n.growerInvoices} on the first page`, paged, 'paged');
+        },
+      },
     ];
     try {
       for (const read of reads) {
         const url = `${base}${read.path ?? '/api/blocks'}?${new URLSearchParams(read.query)}`;
-        const check = await fetch(url, { headers: read.headers });
-        if (!check.ok) throw new Error(`${url}: ${check.status} ${await check.text()}`);
-        await check.arrayBuffer();
+        const first = await fetch(url, { headers: read.headers });
+        if (!first.ok) throw new Error(`${url}: ${first.status} ${await first.text()}`);
+        const body = await first.json();
+        read.check?.(body);
         const one = await alone(150, async () => {
           const res = await fetch(url, { headers: read.headers });
           await res.arrayBuffer();
@@ -488,7 +288,7 @@ export async function benchLoad(row, { databaseUrl = null } = {}) {
           clock.restore();
         }
         const [o, sv, sq] = [percentiles(orm.slice(20)), percentiles(service.slice(20)), percentiles(sqlTimes.slice(20))];
-        row(`  alone, one request at a time`, `HTTP p50 ${ms(one.p50)} · p95 ${ms(one.p95)}; the service in-process p50 ${ms(sv.p50)}`);
+        row(`  alone, one request at a time`, `HTTP p50 ${ms(one.p50)} · p95 ${ms(one.p95)}; the service in-process p50 ${ms(sv.p50)}; ${count(JSON.stringify(body).length)} B of JSON`);
         budget(
           `  in TypeORM vs its SQL statements run by the driver alone`,
           `ORM p50 ${ms(o.p50)} · SQL p50 ${ms(sq.p50)} (${statements.length} statements) · ${(o.p50 / sq.p50).toFixed(1)}×`,
@@ -496,22 +296,80 @@ export async function benchLoad(row, { databaseUrl = null } = {}) {
           `ORM over raw < ${BUDGETS.ormOverRaw}×`,
         );
       }
+
+      // The 120-day log as a PDF. The measured contract is still grazing, so GET …/log.pdf renders a draft on
+      // every request (nothing is stored until the head-days are agreed): the render itself in this process over
+      // the seeded rows, then the HTTP time of a fresh request; then the finished 120-day stay, whose agreed
+      // record was rendered and stored at sign-off and is served from the file store.
+      const contract = await ds.getRepository(Contract).findOneByOrFail({ id: measured });
+      const made = { version: 0, generatedAt: new Date().toISOString() };
+      const dataTimes = [];
+      const renderTimes = [];
+      let pdfBytes = 0;
+      let data;
+      for (let i = 0; i < PDF_RUNS + 2; i++) {
+        const t0 = performance.now();
+        data = await grazingLogPdfData(ctx, contract, made);
+        const t1 = performance.now();
+        const bytes = await ctx.pdf.renderGrazingLog(data);
+        const t2 = performance.now();
+        pdfBytes = bytes.length;
+        // The first two warm the fonts and the JIT, as the server's first requests would.
+        if (i >= 2) {
+          dataTimes.push(t1 - t0);
+          renderTimes.push(t2 - t1);
+        }
+      }
+      const [pd, pr] = [percentiles(dataTimes), percentiles(renderTimes)];
+      budget(
+        `120-day log PDF (${data.log.days.length} days, ${count(pdfBytes)} B): render, median of ${PDF_RUNS}`,
+        `${ms(pr.p50)} (max ${ms(Math.max(...renderTimes))}); reading its data ${ms(pd.p50)}`,
+        pr.p50 < BUDGETS.pdfMs,
+        `< ${BUDGETS.pdfMs} ms`,
+      );
+      const pdfUrl = (id) => `${base}/api/contracts/${id}/log.pdf`;
+      const timeGet = async (url) => {
+        const t0 = performance.now();
+        const res = await fetch(url, { headers: grazier });
+        const bytes = (await res.arrayBuffer()).byteLength;
+        if (!res.ok) throw new Error(`${url}: ${res.status}`);
+        return { t: performance.now() - t0, bytes, version: res.headers.get('x-document-version') };
+      };
+      const draft = await timeGet(pdfUrl(measured));
+      const again = await alone(5, () => timeGet(pdfUrl(measured)));
+      row('  GET …/log.pdf of it over HTTP (a draft: rendered per request)', `first ${ms(draft.t)}; next 5 p50 ${ms(again.p50)}`);
+      const storedFirst = await timeGet(pdfUrl(season.finishedMeasured.id));
+      row(`  GET …/log.pdf of the finished 120-day stay (stored v${storedFirst.version})`, `first ${ms(storedFirst.t)} (${count(storedFirst.bytes)} B from the file store)`);
     } finally {
       await raw.end?.();
       raw.close?.();
       await ds.destroy();
     }
-    row("a contract's log with running totals", season.logTable.length ? `not measured: log table ${season.logTable.join(', ')} has no seeder here yet` : 'not measured: no log table yet');
-    row('invoice list', 'not measured: no invoices yet');
 
-    // A write while the market is under load: a grower posting a block draft (the log POST once the log exists).
-    // Posts go one at a time, 50 ms apart, only while the market load runs.
-    let loading = true;
-    const marketLoad = cannon({ url: `${base}/api/blocks?view=market`, headers: grazier }).finally(() => {
-      loading = false;
-    });
-    await new Promise((r) => setTimeout(r, 1000));
-    const blockBody = JSON.stringify({
+    // Writes while the market is under load: posts go one at a time, 50 ms apart, only while the market load runs.
+    const underLoad = async (label, send) => {
+      let loading = true;
+      const marketLoad = cannon({ url: `${base}/api/blocks?view=market`, headers: grazier }).finally(() => {
+        loading = false;
+      });
+      await new Promise((r) => setTimeout(r, 1000));
+      const times = [];
+      for (let i = 0; loading && times.length < 400; i++) {
+        const s = performance.now();
+        await send(i);
+        if (loading) times.push(performance.now() - s);
+        await new Promise((r) => setTimeout(r, 50));
+      }
+      const posts = percentiles(times);
+      const loaded = await marketLoad;
+      budget(`${label} while the market takes ${CONNECTIONS} conn`, `p50 ${ms(posts.p50)} · p95 ${ms(posts.p95)} · p99 ${ms(posts.p99)} (n=${posts.n}; market meanwhile ${loaded.rps.toFixed(0)} req/s, p95 ${ms(loaded.p95)})`, posts.p95 < BUDGETS.writeUnderLoadP95Ms, `p95 < ${BUDGETS.writeUnderLoadP95Ms} ms`);
+    };
+    const post = async (url, headers, body, want) => {
+      const res = await fetch(url, { method: 'POST', headers: { ...headers, 'content-type': 'application/json' }, body: JSON.stringify(body) });
+      if (res.status !== want) throw new Error(`POST ${url} under load: ${res.status} ${await res.text()}`);
+      await res.arrayBuffer();
+    };
+    const blockBody = {
       name: 'Posted under load',
       crop: 'orchard',
       acres: 40,
@@ -528,20 +386,13 @@ export async function benchLoad(row, { databaseUrl = null } = {}) {
       truckAccess: true,
       speciesAllowed: ['sheep'],
       youngPlantings: false,
-    });
-    const postTimes = [];
-    while (loading && postTimes.length < 400) {
-      const s = performance.now();
-      const res = await fetch(`${base}/api/blocks`, { method: 'POST', headers: { ...grower, 'content-type': 'application/json' }, body: blockBody });
-      if (res.status !== 201) throw new Error(`block POST under load: ${res.status} ${await res.text()}`);
-      await res.arrayBuffer();
-      if (loading) postTimes.push(performance.now() - s);
-      await new Promise((r) => setTimeout(r, 50));
-    }
-    const posts = percentiles(postTimes);
-    const loaded = await marketLoad;
-    budget(`block POST while the market takes ${CONNECTIONS} conn`, `p50 ${ms(posts.p50)} · p95 ${ms(posts.p95)} · p99 ${ms(posts.p99)} (n=${posts.n}; market meanwhile ${loaded.rps.toFixed(0)} req/s, p95 ${ms(loaded.p95)})`, posts.p95 < BUDGETS.writeUnderLoadP95Ms, `p95 < ${BUDGETS.writeUnderLoadP95Ms} ms`);
-    row('log entry POST while the market is loaded', 'not measured: no log table yet');
+    };
+    await underLoad('block POST (grower, a new draft)', () => post(`${base}/api/blocks`, grower, blockBody, 201));
+    // The grazier's morning check from the truck: a new entry (a new client id) each time, timed a minute ago.
+    const run = crypto.randomUUID().slice(0, 8);
+    await underLoad('log entry POST (grazier, an observation)', (i) =>
+      post(`${base}/api/contracts/${measured}/log`, grazier, { clientId: `bench-${run}-${i}`, kind: 'observation', at: new Date(Date.now() - 60_000).toISOString(), paddock: 'Cell 2', waterChecked: true, fenceChecked: true, note: 'Checked under load.' }, 201),
+    );
 
     const rss = fs.readFileSync(`/proc/${server.pid}/status`, 'utf8').match(/VmRSS:\s+(\d+) kB/);
     row('server memory at the end (RSS)', rss ? `${(Number(rss[1]) / 1024).toFixed(0)} MB` : 'unknown');

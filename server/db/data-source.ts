@@ -21,6 +21,8 @@ import { MarketFigures1765400000000 } from './migrations/1765400000000-market-fi
 import { PasswordResets1766000000000 } from './migrations/1766000000000-password-resets';
 import { PostgresFunctions1766200000000 } from './migrations/1766200000000-postgres-functions';
 import { RateLimitHits1766200000100 } from './migrations/1766200000100-rate-limit-hits';
+import { InvoiceListOrder1766300000000 } from './migrations/1766300000000-invoice-list-order';
+import { LogMovesIndex1766300100000 } from './migrations/1766300100000-log-moves-index';
 import { registerSqlFunctions } from './sql-functions';
 
 export const entities = [Account, Session, PasswordReset, Block, BlockPhoto, Bid, Contract, ContractSignature, ContractAmendment, LogEntry, LogPhoto, SignOff, OutboxMessage, Document, Invoice, InvoiceCounter, PaymentEventRecord, PaymentCustomer];
@@ -37,6 +39,8 @@ export const migrations = [
   PasswordResets1766000000000,
   PostgresFunctions1766200000000,
   RateLimitHits1766200000100,
+  InvoiceListOrder1766300000000,
+  LogMovesIndex1766300100000,
 ];
 
 /** Where the data lives: a SQLite file path (':memory:' for tests) or a postgres:// URL (DATABASE_URL). */

@@ -6,9 +6,10 @@ import { validBlockRecord } from '../../modules/blocks/blocks.service';
 import { validBidRecord } from '../../modules/bids/bids.service';
 import { Contract } from '../../modules/contracts/contract.entity';
 import { ContractSignature, LogEntry, SignOff } from '../../modules/contracts/contract-records.entity';
-import { createContract } from '../../modules/contracts/contracts.service';
+import { createContract, signatureRecord } from '../../modules/contracts/contracts.service';
 import { figuresOf, latestSignOff, movesOf, termsInForce } from '../../modules/contracts/contract-state';
 import { logEntryRow, vetLogEntry } from '../../modules/contracts/contract-log.service';
+import { approvalOf, proposalRecord } from '../../modules/contracts/sign-off.service';
 import { check } from '../../lib/http/validate';
 import { addDaysToKey, startOfLocalDay, timeZoneOffsetMs } from '../../../lib/dates';
 import { logEntrySchema, type ContractParty, type LogEntryInput } from '../../../lib/schemas/contract';
@@ -368,19 +369,12 @@ export async function seedStay(tx: EntityManager, ids: Map<string, string>, stay
 
   const { terms, hash } = await termsInForce(tx, contract);
   for (const s of stay.signatures) {
-    await tx.insert(ContractSignature, {
-      id: crypto.randomUUID(),
-      contractId: contract.id,
-      termsVersion: 1,
-      party: s.party,
-      accountId: s.party === 'grower' ? contract.growerId : contract.grazierId,
-      typedName: terms[s.party].name,
-      cautionsAcknowledged: true,
-      termsHash: hash,
-      ip: null,
-      userAgent: 'Fieldfold demo seed',
-      signedAt: when(s.day, s.time),
-    });
+    const party = s.party;
+    const input = { termsHash: hash, typedName: terms[party].name, cautionsAcknowledged: true as const };
+    await tx.insert(
+      ContractSignature,
+      signatureRecord({ contractId: contract.id, termsVersion: 1, party, accountId: party === 'grower' ? contract.growerId : contract.grazierId, input, termsHash: hash, origin: { ip: null, userAgent: 'Fieldfold demo seed' }, at: when(s.day, s.time) }),
+    );
   }
   if (stay.signatures.length < 2) return;
   contract.status = 'signed';
@@ -402,30 +396,19 @@ export async function seedStay(tx: EntityManager, ids: Map<string, string>, stay
   const so = stay.signOff;
   const figures = await figuresOf(tx, contract, terms, at(so.day, so.time).ms);
   const names = { grazier: terms.grazier.name, grower: terms.grower.name };
-  const round: SignOff = Object.assign(new SignOff(), {
-    id: crypto.randomUUID(),
+  const round = proposalRecord({
     contractId: contract.id,
     round: ((await latestSignOff(tx, contract.id))?.round ?? 0) + 1,
-    status: 'proposed' as const,
-    proposedHeadDays: figures.headDaysSoFar,
-    byDay: figures.byDay,
-    countedUntil: figures.until!,
-    comment: so.comment ?? null,
+    figures,
     grazierName: names.grazier,
-    proposedAt: when(so.day, so.time),
-    counterHeadDays: null,
-    disputeComment: null,
-    disputedAt: null,
-    growerName: null,
-    agreedHeadDays: null,
-    agreedAt: null,
-    agreedBy: null,
+    comment: so.comment ?? null,
+    at: when(so.day, so.time),
   });
   const a = so.answer;
   // The grower's counter, kept to the 4 decimals head-days carry.
   const less = (n: number) => Math.round((round.proposedHeadDays - n) * 10_000) / 10_000;
   if (a.kind === 'approve') {
-    Object.assign(round, { status: 'agreed', agreedHeadDays: round.proposedHeadDays, agreedAt: when(a.day, a.time), agreedBy: 'grower', growerName: names.grower });
+    Object.assign(round, approvalOf(round, names.grower, when(a.day, a.time)));
   } else {
     Object.assign(round, {
       status: 'agreed',

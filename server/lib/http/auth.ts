@@ -3,6 +3,8 @@ import jwt from 'jsonwebtoken';
 import type { DataSource } from 'typeorm';
 import { AppError } from '../errors/app-error';
 import { Account, Session } from '../../modules/accounts/account.entity';
+import { PreparedSelect } from '../db/prepared-select';
+import { tokenKey } from './token-key';
 import type { Role } from '../../../lib/roles';
 
 export interface TokenClaims {
@@ -42,8 +44,17 @@ export function hasRole(account: Account, role: Role): boolean {
   return accountRoles(account).includes(role);
 }
 
+/** The signed-in account of a session that is still open, in one query: the session's id, account and expiry. */
+const sessionAccount = new PreparedSelect((em) =>
+  em
+    .createQueryBuilder(Account, 'a')
+    .innerJoin(Session, 's', 's.account_id = a.id')
+    .where('s.id = :sid AND s.account_id = :sub AND s.expires_at >= :now'),
+);
+
 /** 401 unless the bearer token is valid, unexpired and its session still open. */
 export function requireAuth(ds: DataSource, secret: string, now: () => number = Date.now): RequestHandler {
+  const key = tokenKey(secret);
   return async (req, _res, next) => {
     try {
       const header = req.get('authorization') ?? '';
@@ -51,7 +62,7 @@ export function requireAuth(ds: DataSource, secret: string, now: () => number = 
       if (!match) throw AppError.unauthenticated();
       let claims: TokenClaims;
       try {
-        claims = jwt.verify(match[1], secret, { algorithms: ['HS256'], clockTimestamp: Math.floor(now() / 1000) }) as TokenClaims;
+        claims = jwt.verify(match[1], key, { algorithms: ['HS256'], clockTimestamp: Math.floor(now() / 1000) }) as TokenClaims;
       } catch {
         throw AppError.unauthenticated('Your sign-in has expired or is not valid. Sign in again.');
       }
@@ -59,9 +70,8 @@ export function requireAuth(ds: DataSource, secret: string, now: () => number = 
       if (claims.typ !== undefined || typeof claims.sid !== 'string' || typeof claims.sub !== 'string') {
         throw AppError.unauthenticated('Your sign-in is not valid. Sign in again.');
       }
-      if (!(await sessionIsOpen(ds, claims.sub, claims.sid, now))) throw AppError.unauthenticated('You have been signed out. Sign in again.');
-      const account = await ds.getRepository(Account).findOneBy({ id: claims.sub });
-      if (!account) throw AppError.unauthenticated();
+      const account = await sessionAccount.one(ds.manager, { sid: claims.sid, sub: claims.sub, now: new Date(now()) });
+      if (!account) throw AppError.unauthenticated('You have been signed out. Sign in again.');
       account.sessionId = claims.sid;
       req.account = account;
       req.sessionId = claims.sid;

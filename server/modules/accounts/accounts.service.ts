@@ -4,6 +4,7 @@ import jwt from 'jsonwebtoken';
 import type { DataSource, EntityManager } from 'typeorm';
 import { AppError } from '../../lib/errors/app-error';
 import { accountRoles } from '../../lib/http/auth';
+import { tokenKey } from '../../lib/http/token-key';
 import { Account, Session } from './account.entity';
 import { inTransaction } from '../../lib/db/transaction';
 import { isUniqueViolation } from '../../lib/db/unique-violation';
@@ -52,7 +53,7 @@ async function newSession(tx: EntityManager, account: Account, tokens: TokenSett
   const now = (tokens.now ?? Date.now)();
   const session = tx.getRepository(Session).create({ id: crypto.randomUUID(), accountId: account.id, expiresAt: new Date(now + ttlMs(tokens.ttl)) });
   await tx.getRepository(Session).insert(session);
-  const token = jwt.sign({ sid: session.id, iat: Math.floor(now / 1000) }, tokens.secret, {
+  const token = jwt.sign({ sid: session.id, iat: Math.floor(now / 1000) }, tokenKey(tokens.secret), {
     subject: account.id,
     algorithm: 'HS256',
     expiresIn: Math.floor(ttlMs(tokens.ttl) / 1000),

@@ -1,4 +1,5 @@
-import { In, type EntityManager } from 'typeorm';
+import type { EntityManager } from 'typeorm';
+import { PreparedSelect } from '../../lib/db/prepared-select';
 import { readTogether } from '../../lib/db/reads';
 import { Account } from '../accounts/account.entity';
 import { Block } from '../blocks/block.entity';
@@ -11,17 +12,22 @@ import { cautionsForBlock } from '../../../lib/grazing/safety';
 import type { BidInput, BidView } from '../../../lib/schemas/bid';
 import { pickTerms } from '../../../lib/terms';
 
-/** Completed contracts per grazier: their record on Fieldfold. */
-export async function completedContracts(em: EntityManager, grazierIds: string[]): Promise<Map<string, number>> {
-  if (grazierIds.length === 0) return new Map();
-  const rows: Array<{ grazierId: string; n: number }> = await em
+const completedPerGrazier = new PreparedSelect((em) =>
+  em
     .createQueryBuilder(Contract, 'c')
     .select('c.grazier_id', 'grazierId')
     .addSelect('COUNT(*)', 'n')
     .where("c.status IN ('agreed', 'invoiced', 'paid')")
-    .andWhere('c.grazier_id IN (:...ids)', { ids: grazierIds })
-    .groupBy('c.grazier_id')
-    .getRawMany();
+    .andWhere('c.grazier_id IN (:...ids)')
+    .groupBy('c.grazier_id'),
+);
+const bidBlocks = new PreparedSelect((em) => em.createQueryBuilder(Block, 'b').where('b.id IN (:...ids)'));
+const bidGraziers = new PreparedSelect((em) => em.createQueryBuilder(Account, 'a').select(['a.id', 'a.name', 'a.businessName']).where('a.id IN (:...ids)'));
+
+/** Completed contracts per grazier: their record on Fieldfold. */
+export async function completedContracts(em: EntityManager, grazierIds: string[]): Promise<Map<string, number>> {
+  if (grazierIds.length === 0) return new Map();
+  const rows = await completedPerGrazier.raw<{ grazierId: string; n: number }>(em, { ids: grazierIds });
   return new Map(rows.map((r) => [r.grazierId, Number(r.n)]));
 }
 
@@ -39,8 +45,8 @@ export async function bidViews(em: EntityManager, bids: Bid[], knownBlocks: Bloc
   const blockIds = [...new Set(bids.map((b) => b.blockId))].filter((id) => !known.has(id));
   const grazierIds = [...new Set(bids.map((b) => b.grazierId))];
   const [blocks, graziers, records] = await readTogether(em, [
-    () => (blockIds.length ? em.findBy(Block, { id: In(blockIds) }) : Promise.resolve([])),
-    () => em.find(Account, { where: { id: In(grazierIds) }, select: { id: true, name: true, businessName: true } }),
+    () => (blockIds.length ? bidBlocks.many(em, { ids: blockIds }) : Promise.resolve([])),
+    () => bidGraziers.many(em, { ids: grazierIds }),
     () => completedContracts(em, grazierIds),
   ]);
   const blockById = new Map([...knownBlocks, ...blocks].map((b) => [b.id, b]));

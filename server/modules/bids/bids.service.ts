@@ -1,6 +1,7 @@
 import crypto from 'node:crypto';
 import type { EntityManager } from 'typeorm';
 import { AppError } from '../../lib/errors/app-error';
+import { PreparedSelect } from '../../lib/db/prepared-select';
 import { assertJsonObject, check } from '../../lib/http/validate';
 import { inTransaction } from '../../lib/db/transaction';
 import { isUniqueViolation } from '../../lib/db/unique-violation';
@@ -133,17 +134,44 @@ export async function getBid(ctx: ServiceContext, viewer: Account, bidId: string
   return (await bidViews(ctx.ds.manager, [bid]))[0];
 }
 
+// A page of bids for each shape of filter (block, grazier, status; oldest or newest first), each statement built once.
+const BID_FILTER_COLUMNS = { blockId: 'block_id', grazierId: 'grazier_id', status: 'status' } as const;
+type BidFilter = Partial<Record<keyof typeof BID_FILTER_COLUMNS, string>>;
+const bidQueries = new Map<string, { page: PreparedSelect<Bid>; count: PreparedSelect<Bid> }>();
+
+function bidQueriesFor(filter: BidFilter, newestFirst: boolean) {
+  const keys = (Object.keys(BID_FILTER_COLUMNS) as Array<keyof typeof BID_FILTER_COLUMNS>).filter((k) => filter[k] !== undefined);
+  const shape = `${keys.join(',')}|${newestFirst ? 'desc' : 'asc'}`;
+  let q = bidQueries.get(shape);
+  if (!q) {
+    const where = (em: EntityManager) => {
+      const qb = em.createQueryBuilder(Bid, 'b');
+      keys.forEach((k, i) => (i === 0 ? qb.where(`b.${BID_FILTER_COLUMNS[k]} = :${k}`) : qb.andWhere(`b.${BID_FILTER_COLUMNS[k]} = :${k}`)));
+      return qb;
+    };
+    q = {
+      page: new PreparedSelect((em) => where(em).orderBy('b.created_at', newestFirst ? 'DESC' : 'ASC').addOrderBy('b.id', 'ASC'), { offset: true }),
+      count: new PreparedSelect((em) => where(em).select('COUNT(*)', 'n')),
+    };
+    bidQueries.set(shape, q);
+  }
+  return q;
+}
+
 /** The page of `bids` a list query asks for, oldest or newest first, and how many there are. */
-async function bidPage(ctx: ServiceContext, where: Record<string, unknown>, q: BidListQuery, newestFirst: boolean, block?: Block): Promise<Page<BidView>> {
+async function bidPage(ctx: ServiceContext, where: BidFilter, q: BidListQuery, newestFirst: boolean, block?: Block): Promise<Page<BidView>> {
   const page = q.page ?? 1;
   const pageSize = q.pageSize ?? DEFAULT_BID_PAGE_SIZE;
   const em = ctx.ds.manager;
-  const filter = { ...where, ...(q.status ? { status: q.status } : {}) };
-  const bids = await em.find(Bid, { where: filter, order: { createdAt: newestFirst ? 'DESC' : 'ASC', id: 'ASC' }, skip: (page - 1) * pageSize, take: pageSize });
+  const filter: BidFilter = { ...where, ...(q.status ? { status: q.status } : {}) };
+  const queries = bidQueriesFor(filter, newestFirst);
+  const bids = await queries.page.many(em, { ...filter, limit: pageSize, offset: (page - 1) * pageSize });
   // A first page that is not full holds them all: no count needed.
-  const total = page === 1 && bids.length < pageSize ? bids.length : await em.countBy(Bid, filter);
+  const total = page === 1 && bids.length < pageSize ? bids.length : Number((await queries.count.raw<{ n: number | string }>(em, filter))[0].n);
   return { items: await bidViews(em, bids, block ? [block] : []), total, page, pageSize };
 }
+
+const blockById = new PreparedSelect((em) => em.createQueryBuilder(Block, 'b').where('b.id = :id'));
 
 /**
  * Bids on a block, oldest first, a page at a time. The owner sees all of them (every state), normalised for
@@ -153,7 +181,7 @@ async function bidPage(ctx: ServiceContext, where: Record<string, unknown>, q: B
 export async function listBlockBids(ctx: ServiceContext, viewer: Account, blockId: string, query: unknown = {}): Promise<Page<BidView>> {
   const q = (await check(bidListQuerySchema, query)) as BidListQuery;
   const em = ctx.ds.manager;
-  const block = await em.findOneBy(Block, { id: blockId });
+  const block = await blockById.one(em, { id: blockId });
   if (!block) throw AppError.notFound('Block');
   if (isOwner(viewer, block)) return bidPage(ctx, { blockId }, q, false, block);
   const own = await bidPage(ctx, { blockId, grazierId: viewer.id }, q, false, block);

@@ -1,4 +1,5 @@
-import { Brackets, In, type DataSource, type SelectQueryBuilder } from 'typeorm';
+import { Brackets, type DataSource, type SelectQueryBuilder } from 'typeorm';
+import { PreparedSelect } from '../../lib/db/prepared-select';
 import { Block } from './block.entity';
 import { distanceMilesSql } from '../../db/sql-functions';
 import { boundingBox, distanceMiles, type LatLng, type LatLngBox } from '../../../lib/geo';
@@ -41,6 +42,11 @@ type Qb = SelectQueryBuilder<Block>;
 /** Rows this far (relative) from a threshold on the allowable column are decided by the exact expression only. */
 const LOOSE = 1e-9;
 
+const zonesEndingSoon = new PreparedSelect((em) =>
+  em.createQueryBuilder(Block, 'b').select('DISTINCT b.time_zone', 'tz').where("b.status = 'open'").andWhere('b.graze_until >= :utc AND b.graze_until <= :next'),
+);
+const blocksById = new PreparedSelect((em) => em.createQueryBuilder(Block, 'b').where('b.id IN (:...ids)'));
+
 /**
  * Which zones' "today" decides whether a block whose last day is today or tomorrow in UTC is still in the
  * market. Local dates run from one day before to one day after the UTC date (UTC−12 … UTC+14), so only blocks
@@ -49,13 +55,7 @@ const LOOSE = 1e-9;
 async function daysLeftCondition(ds: DataSource, nowMs: number): Promise<{ sql: string; params: Record<string, unknown> }> {
   const utc = todayIn('UTC', nowMs);
   const next = addDays(utc, 1);
-  const rows: Array<{ tz: string }> = await ds
-    .getRepository(Block)
-    .createQueryBuilder('b')
-    .select('DISTINCT b.time_zone', 'tz')
-    .where("b.status = 'open'")
-    .andWhere('b.graze_until >= :utc AND b.graze_until <= :next', { utc, next })
-    .getRawMany();
+  const rows = await zonesEndingSoon.raw<{ tz: string }>(ds.manager, { utc, next });
   // A block is in while its last day is after today at the block.
   const zones = rows.map((r) => ({ tz: r.tz, today: todayIn(r.tz, nowMs) }));
   const lastDayTomorrow = zones.filter((z) => z.today < next).map((z) => z.tz);
@@ -288,7 +288,7 @@ export async function findBlockPage(ds: DataSource, nowMs: number, viewer: ListV
     q.sort === 'distance'
       ? await pageByDistance(base, viewer.home!, q.maxMiles, total, offset, q.pageSize)
       : await pageByFigure(base, figureSort(ds, q.sort, viewer), offset, q.pageSize);
-  const found = await ds.getRepository(Block).findBy({ id: In(ids) });
+  const found = ids.length ? await blocksById.many(ds.manager, { ids }) : [];
   const byId = new Map(found.map((b) => [b.id, b]));
   return { blocks: ids.map((id) => byId.get(id)!).filter(Boolean), total };
 }

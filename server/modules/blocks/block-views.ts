@@ -1,4 +1,5 @@
-import { In, type EntityManager } from 'typeorm';
+import type { EntityManager } from 'typeorm';
+import { PreparedSelect } from '../../lib/db/prepared-select';
 import { Account } from '../accounts/account.entity';
 import { readTogether } from '../../lib/db/reads';
 import { hasRole } from '../../lib/http/auth';
@@ -111,6 +112,24 @@ function enteredFields(b: Block) {
   };
 }
 
+// Only what the views show: the owners' names, the photos, the viewer's own live bids, and live-bid counts for
+// the owner; each statement built once (PreparedSelect). status = 'live' is written out so SQLite can use the
+// partial unique index on live bids.
+const viewOwners = new PreparedSelect((em) => em.createQueryBuilder(Account, 'a').select(['a.id', 'a.name', 'a.businessName']).where('a.id IN (:...ids)'));
+const viewPhotos = new PreparedSelect((em) => em.createQueryBuilder(BlockPhoto, 'p').where('p.block_id IN (:...ids)').orderBy('p.position', 'ASC'));
+const viewMyLiveBids = new PreparedSelect((em) =>
+  em.createQueryBuilder(Bid, 'bid').select('bid.id', 'id').addSelect('bid.block_id', 'blockId').where("bid.status = 'live'").andWhere('bid.grazier_id = :viewer AND bid.block_id IN (:...ids)'),
+);
+const viewLiveCounts = new PreparedSelect((em) =>
+  em
+    .createQueryBuilder(Bid, 'bid')
+    .select('bid.block_id', 'blockId')
+    .addSelect('COUNT(*)', 'n')
+    .where("bid.status = 'live'")
+    .andWhere('bid.block_id IN (:...ownIds)')
+    .groupBy('bid.block_id'),
+);
+
 /** Builds views for several blocks with one query per related table. */
 export async function blockViews(ctx: ServiceContext, viewer: Account, blocks: Block[], em: EntityManager = ctx.ds.manager): Promise<BlockView[]> {
   if (blocks.length === 0) return [];
@@ -118,29 +137,11 @@ export async function blockViews(ctx: ServiceContext, viewer: Account, blocks: B
   const ownerIds = [...new Set(blocks.map((b) => b.ownerId))];
   const ownIds = blocks.filter((b) => isOwner(viewer, b)).map((b) => b.id);
   // Only what the views show: the owners' names, the viewer's own live bids, and live-bid counts for the owner.
-  // status = 'live' is written out so SQLite can use the partial unique index on live bids.
   const [owners, photos, myLiveBids, liveCounts] = await readTogether(em, [
-    () => em.find(Account, { where: { id: In(ownerIds) }, select: { id: true, name: true, businessName: true } }),
-    () => em.find(BlockPhoto, { where: { blockId: In(ids) }, order: { position: 'ASC' } }),
-    () =>
-      em
-        .createQueryBuilder(Bid, 'bid')
-        .select('bid.id', 'id')
-        .addSelect('bid.block_id', 'blockId')
-        .where("bid.status = 'live'")
-        .andWhere('bid.grazier_id = :viewer AND bid.block_id IN (:...ids)', { viewer: viewer.id, ids })
-        .getRawMany<{ id: string; blockId: string }>(),
-    () =>
-      ownIds.length === 0
-        ? Promise.resolve([])
-        : em
-            .createQueryBuilder(Bid, 'bid')
-            .select('bid.block_id', 'blockId')
-            .addSelect('COUNT(*)', 'n')
-            .where("bid.status = 'live'")
-            .andWhere('bid.block_id IN (:...ownIds)', { ownIds })
-            .groupBy('bid.block_id')
-            .getRawMany<{ blockId: string; n: number }>(),
+    () => viewOwners.many(em, { ids: ownerIds }),
+    () => viewPhotos.many(em, { ids }),
+    () => viewMyLiveBids.raw<{ id: string; blockId: string }>(em, { viewer: viewer.id, ids }),
+    () => (ownIds.length === 0 ? Promise.resolve([]) : viewLiveCounts.raw<{ blockId: string; n: number }>(em, { ownIds })),
   ]);
   const ownerById = new Map(owners.map((o) => [o.id, o]));
   const myLiveBidByBlock = new Map(myLiveBids.map((x) => [x.blockId, x.id]));

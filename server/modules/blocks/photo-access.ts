@@ -2,6 +2,7 @@ import type { RequestHandler } from 'express';
 import jwt from 'jsonwebtoken';
 import { bearerOrAccessLink, type LinkViewer } from '../../lib/http/auth';
 import { param } from '../../lib/http/params';
+import { tokenKey } from '../../lib/http/token-key';
 import type { ServiceContext } from '../../lib/service-context';
 
 // A web <img> cannot send an Authorization header, so each photo URL in a block view carries its own
@@ -23,7 +24,7 @@ interface PhotoAccessClaims {
 }
 
 export function signPhotoAccess(secret: string, p: { photoId: string; blockId: string; viewer: LinkViewer }): string {
-  return jwt.sign({ typ: 'photo', pid: p.photoId, bid: p.blockId, ...(p.viewer.sessionId ? { ses: p.viewer.sessionId } : {}) }, secret, {
+  return jwt.sign({ typ: 'photo', pid: p.photoId, bid: p.blockId, ...(p.viewer.sessionId ? { ses: p.viewer.sessionId } : {}) }, tokenKey(secret), {
     subject: p.viewer.id,
     algorithm: 'HS256',
     expiresIn: PHOTO_ACCESS_TTL_S,
@@ -33,7 +34,7 @@ export function signPhotoAccess(secret: string, p: { photoId: string; blockId: s
 /** The viewer and session the token was issued to, if it is a valid, unexpired token for exactly this photo. */
 export function verifyPhotoAccess(secret: string, token: string, p: { photoId: string; blockId: string }): { viewerId: string; sessionId: string } | null {
   try {
-    const claims = jwt.verify(token, secret, { algorithms: ['HS256'] }) as Partial<PhotoAccessClaims>;
+    const claims = jwt.verify(token, tokenKey(secret), { algorithms: ['HS256'] }) as Partial<PhotoAccessClaims>;
     if (claims.typ !== 'photo' || claims.pid !== p.photoId || claims.bid !== p.blockId || typeof claims.sub !== 'string' || typeof claims.ses !== 'string') return null;
     return { viewerId: claims.sub, sessionId: claims.ses };
   } catch {

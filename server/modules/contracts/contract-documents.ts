@@ -137,7 +137,8 @@ export function grazingLogSourceKey(c: Pick<Contract, 'termsVersion' | 'agreedHe
   return `terms-v${c.termsVersion}:agreed-${c.agreedHeadDays}@${c.agreedAt.toISOString()}`;
 }
 
-async function documentData(ctx: ServiceContext, contract: Contract, made: { version: number; generatedAt: string }): Promise<GrazingLogPdfData> {
+/** What the grazing-log PDF of `contract` prints, read from the database (the renderer's input). */
+export async function grazingLogPdfData(ctx: ServiceContext, contract: Contract, made: { version: number; generatedAt: string }): Promise<GrazingLogPdfData> {
   const em = ctx.ds.manager;
   const { terms } = await termsInForce(em, contract);
   const owner = await em.findOneByOrFail(Account, { id: contract.grazierId });
@@ -162,7 +163,7 @@ async function storeLog(ctx: ServiceContext, contract: Contract, key: string): P
   const doc = await storeRenderedDocument(ctx, {
     kind: 'grazing-log',
     contractId: contract.id,
-    render: async (version) => ctx.pdf.renderGrazingLog(await documentData(ctx, contract, { version, generatedAt: new Date(ctx.now()).toISOString() })),
+    render: async (version) => ctx.pdf.renderGrazingLog(await grazingLogPdfData(ctx, contract, { version, generatedAt: new Date(ctx.now()).toISOString() })),
   });
   // Only while the record is still the one rendered: a change meanwhile leaves the key stale, so the next read renders again.
   await inTransaction(ctx.ds, (tx) =>
@@ -202,7 +203,7 @@ export async function grazingLogPdf(ctx: ServiceContext, viewer: Account, contra
   const key = grazingLogSourceKey(contract);
   if (!key) {
     // A log still being kept: a draft, made now and not stored (it changes with every entry).
-    const bytes = await ctx.pdf.renderGrazingLog(await documentData(ctx, contract, { version: 0, generatedAt: new Date(ctx.now()).toISOString() }));
+    const bytes = await ctx.pdf.renderGrazingLog(await grazingLogPdfData(ctx, contract, { version: 0, generatedAt: new Date(ctx.now()).toISOString() }));
     return { draft: bytes, fileName: `fieldfold-grazing-log-${contract.id.slice(0, 8)}-draft.pdf` };
   }
   const current = contract.logDocumentKey === key && contract.logDocumentId ? await em.findOneBy(Document, { id: contract.logDocumentId }) : null;

@@ -1,5 +1,5 @@
 import crypto from 'node:crypto';
-import { In, type EntityManager } from 'typeorm';
+import type { EntityManager } from 'typeorm';
 import { readTogether } from '../../lib/db/reads';
 import { AppError } from '../../lib/errors/app-error';
 import { check } from '../../lib/http/validate';
@@ -13,11 +13,12 @@ import { Account } from '../accounts/account.entity';
 import { signPhotoAccess } from '../blocks/photo-access';
 import { Contract } from './contract.entity';
 import { LogEntry, LogPhoto, SignOff } from './contract-records.entity';
-import { figuresOf, latestSignOff, lockContract, movesOf, termsInForce } from './contract-state';
+import { figuresOf, findContract, latestSignOff, lockContract, movesOf, termsInForce } from './contract-state';
+import { PreparedSelect } from '../../lib/db/prepared-select';
 import { decodeCursor, encodeCursor } from './cursor';
 import { assertCanRead, assertParty, partyOf } from './contracts.policy';
 import type { ContractTerms } from '../../../lib/contract-terms';
-import { localDateKey, parseIsoInstant, startOfLocalDay } from '../../../lib/dates';
+import { isAfterLocalDay, parseIsoInstant, startOfLocalDay } from '../../../lib/dates';
 import { formatDay, formatNumber } from '../../../lib/format';
 import { GrazingInputError } from '../../../lib/grazing/errors';
 import { parseMoves } from '../../../lib/grazing/head-days';
@@ -103,9 +104,8 @@ function headAt(moves: Array<{ atMs: number; change: number }>, atMs: number): n
 
 /** Flags that follow from the terms in force (recomputed on every read, so an amended out-by date moves them). */
 function dateFlags(e: { atMs: number }, terms: ContractTerms): string[] {
-  const day = localDateKey(e.atMs, terms.block.timeZone);
-  if (day > terms.outBy) return [afterOutByFlag(terms.outBy)];
-  if (day > terms.endDate) return [afterEndDateFlag(terms.endDate)];
+  if (isAfterLocalDay(e.atMs, terms.outBy, terms.block.timeZone)) return [afterOutByFlag(terms.outBy)];
+  if (isAfterLocalDay(e.atMs, terms.endDate, terms.block.timeZone)) return [afterEndDateFlag(terms.endDate)];
   return [];
 }
 
@@ -191,7 +191,7 @@ export async function addLogEntry(ctx: ServiceContext, caller: Account, id: stri
     outcome = await inTransaction(ctx.ds, async (tx) => {
       const contract = await lockContract(tx, id);
       assertParty(caller, contract);
-      const stored = await tx.findOneBy(LogEntry, { contractId: contract.id, clientId: input.clientId });
+      const stored = await entryByClientId.one(tx, { contractId: contract.id, clientId: input.clientId });
       if (stored) return { entryId: stored.id, created: false };
 
       const party = partyOf(caller, contract)!;
@@ -214,18 +214,23 @@ export async function addLogEntry(ctx: ServiceContext, caller: Account, id: stri
     outcome = { entryId: stored.id, created: false };
   }
   const em = ctx.ds.manager;
-  const contract = await em.findOneByOrFail(Contract, { id });
+  const [contract, entry] = await Promise.all([findContract(em, id), entryById.one(em, { id: outcome.entryId })]);
+  if (!contract || !entry) throw new Error(`log entry ${outcome.entryId} of contract ${id} not found after its commit`);
   const { terms } = await termsInForce(em, contract);
-  const entry = await em.findOneByOrFail(LogEntry, { id: outcome.entryId });
   const [view] = await entryViews(ctx, em, contract, terms, [entry], caller);
   return { entry: view, created: outcome.created, figures: await figuresOf(em, contract, terms, ctx.now()) };
 }
 
+const partyNames = new PreparedSelect((em) => em.createQueryBuilder(Account, 'a').select('a.id', 'id').addSelect('a.name', 'name').where('a.id IN (:...ids)'));
+const entryPhotos = new PreparedSelect((em) => em.createQueryBuilder(LogPhoto, 'p').where('p.entry_id IN (:...ids)').orderBy('p.created_at', 'ASC'));
+const entryByClientId = new PreparedSelect((em) => em.createQueryBuilder(LogEntry, 'e').where('e.contract_id = :contractId AND e.client_id = :clientId'));
+const entryById = new PreparedSelect((em) => em.createQueryBuilder(LogEntry, 'e').where('e.id = :id'));
+
 async function entryViews(ctx: ServiceContext, em: EntityManager, contract: Contract, terms: ContractTerms, entries: LogEntry[], viewer: LinkViewer): Promise<LogEntryView[]> {
   if (entries.length === 0) return [];
   const [people, photos] = await readTogether(em, [
-    () => em.find(Account, { where: { id: In([contract.growerId, contract.grazierId]) }, select: { id: true, name: true } }),
-    () => em.find(LogPhoto, { where: { entryId: In(entries.map((e) => e.id)) }, order: { createdAt: 'ASC' } }),
+    () => partyNames.raw<{ id: string; name: string }>(em, { ids: [contract.growerId, contract.grazierId] }),
+    () => entryPhotos.many(em, { ids: entries.map((e) => e.id) }),
   ]);
   const nameOf = new Map(people.map((p) => [p.id, p.name]));
   const photosOf = new Map<string, LogPhotoView[]>();
@@ -300,23 +305,32 @@ export async function voidLogEntry(ctx: ServiceContext, caller: Account, id: str
  * A page of the log, newest first, with the running figures over the whole log. A page is cut in SQL by
  * keyset (time, id), so the work per request is bounded by the page size and the number of moves.
  */
+// A page of the log, newest first: from the top, or after a cursor (time, id).
+const logPage = {
+  first: new PreparedSelect((em) => em.createQueryBuilder(LogEntry, 'e').where('e.contract_id = :id').orderBy('e.at_ms', 'DESC').addOrderBy('e.id', 'DESC'), { limit: true }),
+  after: new PreparedSelect(
+    (em) =>
+      em
+        .createQueryBuilder(LogEntry, 'e')
+        .where('e.contract_id = :id')
+        .andWhere('(e.at_ms < :atMs OR (e.at_ms = :atMs AND e.id < :entryId))')
+        .orderBy('e.at_ms', 'DESC')
+        .addOrderBy('e.id', 'DESC'),
+    { limit: true },
+  ),
+};
+
 export async function listLog(ctx: ServiceContext, viewer: Account, id: string, query: Record<string, unknown> = {}): Promise<LogPage> {
   const q = (await check(logPageQuerySchema, query)) as LogPageQuery;
   const em = ctx.ds.manager;
-  const contract = await em.findOneBy(Contract, { id });
+  const contract = await findContract(em, id);
   assertCanRead(viewer, contract);
   const limit = q.limit ?? DEFAULT_LOG_PAGE;
-  const qb = em
-    .createQueryBuilder(LogEntry, 'e')
-    .where('e.contract_id = :id', { id })
-    .orderBy('e.at_ms', 'DESC')
-    .addOrderBy('e.id', 'DESC')
-    .limit(limit + 1);
+  let rows: LogEntry[];
   if (q.cursor) {
     const [atMs, entryId] = decodeCursor(q.cursor, (p): p is [number, string] => p.length === 2 && Number.isSafeInteger(p[0]) && typeof p[1] === 'string');
-    qb.andWhere('(e.at_ms < :atMs OR (e.at_ms = :atMs AND e.id < :entryId))', { atMs, entryId });
-  }
-  const rows = await qb.getMany();
+    rows = await logPage.after.many(em, { id, atMs, entryId, limit: limit + 1 });
+  } else rows = await logPage.first.many(em, { id, limit: limit + 1 });
   const page = rows.slice(0, limit);
   const { terms } = await termsInForce(em, contract);
   const last = page.at(-1);
@@ -328,10 +342,14 @@ export async function listLog(ctx: ServiceContext, viewer: Account, id: string, 
   };
 }
 
+const wholeLog = new PreparedSelect((em) =>
+  em.createQueryBuilder(LogEntry, 'e').where('e.contract_id = :id').orderBy('e.at_ms', 'ASC').addOrderBy('e.recorded_at', 'ASC').addOrderBy('e.id', 'ASC'),
+);
+
 /** Every entry in time order (for the PDF, rendered after a commit, never on a request's write path). */
 export async function allEntryViews(ctx: ServiceContext, contract: Contract, terms: ContractTerms): Promise<LogEntryView[]> {
   const em = ctx.ds.manager;
-  const rows = await em.find(LogEntry, { where: { contractId: contract.id }, order: { atMs: 'ASC', recordedAt: 'ASC', id: 'ASC' } });
+  const rows = await wholeLog.many(em, { id: contract.id });
   // Rendered into a PDF, not shown to a signed-in viewer: photo links made without a session never open.
   return entryViews(ctx, em, contract, terms, rows, { id: contract.grazierId });
 }

@@ -5,6 +5,7 @@ import { AppError } from '../../lib/errors/app-error';
 import { Account } from '../accounts/account.entity';
 import { Block } from '../blocks/block.entity';
 import { Contract } from './contract.entity';
+import { PreparedSelect } from '../../lib/db/prepared-select';
 import { ContractAmendment, LogEntry, SignOff } from './contract-records.entity';
 import { canonicalTermsText, termsFromAward, type ContractTerms, type TermsParty } from '../../../lib/contract-terms';
 import { logFigures, type LogFiguresResult } from '../../../lib/grazing/log-figures';
@@ -26,7 +27,14 @@ export function sha256Hex(text: string): string {
  */
 export async function lockContract(tx: EntityManager, id: string): Promise<Contract | null> {
   await tx.createQueryBuilder().update(Contract).set({ revision: () => 'revision + 1' }).where('id = :id', { id }).execute();
-  return tx.findOneBy(Contract, { id });
+  return findContract(tx, id);
+}
+
+const contractById = new PreparedSelect((em) => em.createQueryBuilder(Contract, 'c').where('c.id = :id'));
+
+/** The contract with this id, or null (em.findOneBy, with its SQL built once: every log request reads it). */
+export function findContract(em: EntityManager, id: string): Promise<Contract | null> {
+  return contractById.one(em, { id });
 }
 
 function termsParty(a: Account | null | undefined): TermsParty {
@@ -36,6 +44,11 @@ function termsParty(a: Account | null | undefined): TermsParty {
 /** Version 1 of the terms from the block and the winning bid, with the parties as their accounts name them now. */
 export async function awardTerms(em: EntityManager, contractId: string, block: Block, growerId: string, grazierId: string, bid: BidTermsView): Promise<ContractTerms> {
   const [grower, grazier] = await readTogether(em, [() => em.findOneBy(Account, { id: growerId }), () => em.findOneBy(Account, { id: grazierId })]);
+  return termsOfAward(contractId, block, grower, grazier, bid);
+}
+
+/** awardTerms with the two accounts at hand (the bench's season seed builds a thousand contracts this way). */
+export function termsOfAward(contractId: string, block: Block, grower: Account | null, grazier: Account | null, bid: BidTermsView): ContractTerms {
   return termsFromAward({
     contractId,
     grower: termsParty(grower),
@@ -91,8 +104,10 @@ export async function waitingAmendment(em: EntityManager, contractId: string): P
   return em.findOneBy(ContractAmendment, { contractId, status: 'proposed' });
 }
 
+const latestRound = new PreparedSelect((em) => em.createQueryBuilder(SignOff, 's').where('s.contract_id = :contractId').orderBy('s.round', 'DESC').limit(1));
+
 export async function latestSignOff(em: EntityManager, contractId: string): Promise<SignOff | null> {
-  return em.findOne(SignOff, { where: { contractId }, order: { round: 'DESC' } });
+  return latestRound.one(em, { contractId });
 }
 
 export function requireTerms(contract: Contract): ContractTerms {
@@ -100,16 +115,33 @@ export function requireTerms(contract: Contract): ContractTerms {
   return contract.terms;
 }
 
-/** The moves of a log in time order (moves at one instant in the order they were stored); voided ones count for nothing. */
-export async function movesOf(em: EntityManager, contractId: string): Promise<Array<{ id: string; at: string; change: number; atMs: number }>> {
-  const rows: Array<{ id: string; at: string; change: number; atMs: number | string }> = await em
+// The log's running figures read the moves and two aggregates on every log request and every entry posted.
+const movesQuery = new PreparedSelect((em) =>
+  em
     .createQueryBuilder(LogEntry, 'e')
     .select(['e.id AS "id"', 'e.at AS "at"', 'e.change AS "change"', 'e.at_ms AS "atMs"'])
-    .where('e.contract_id = :id AND e.kind = :move AND e.voided_at IS NULL', { id: contractId, move: 'move' })
+    // The kind as a literal, so SQLite can use the partial index of the moves (idx_log_moves).
+    .where("e.contract_id = :id AND e.kind = 'move' AND e.voided_at IS NULL")
     .orderBy('e.at_ms', 'ASC')
     .addOrderBy('e.recorded_at', 'ASC')
-    .addOrderBy('e.id', 'ASC')
-    .getRawMany();
+    .addOrderBy('e.id', 'ASC'),
+);
+const lossesQuery = new PreparedSelect((em) =>
+  em.createQueryBuilder(LogEntry, 'e').select('COALESCE(SUM(e.losses), 0)', 'n').where("e.contract_id = :id AND e.author = 'grazier' AND e.voided_at IS NULL"),
+);
+const residualQuery = new PreparedSelect((em) =>
+  em
+    .createQueryBuilder(LogEntry, 'e')
+    .select('e.residual_height_in', 'h')
+    .where('e.contract_id = :id AND e.residual_height_in IS NOT NULL AND e.voided_at IS NULL')
+    .orderBy('e.at_ms', 'DESC')
+    .addOrderBy('e.id', 'DESC')
+    .limit(1),
+);
+
+/** The moves of a log in time order (moves at one instant in the order they were stored); voided ones count for nothing. */
+export async function movesOf(em: EntityManager, contractId: string): Promise<Array<{ id: string; at: string; change: number; atMs: number }>> {
+  const rows = await movesQuery.raw<{ id: string; at: string; change: number; atMs: number | string }>(em, { id: contractId });
   return rows.map((r) => ({ id: r.id, at: r.at, change: Number(r.change), atMs: Number(r.atMs) }));
 }
 
@@ -118,23 +150,10 @@ export async function movesOf(em: EntityManager, contractId: string): Promise<Ar
  * with the number of moves (a few a day), not with the whole log.
  */
 export async function figuresOf(em: EntityManager, contract: Contract, terms: ContractTerms, nowMs: number): Promise<LogFiguresResult> {
-  const [moves, losses, residual] = await readTogether(em, [
+  const [moves, [losses], [residual]] = await readTogether(em, [
     () => movesOf(em, contract.id),
-    () =>
-      em
-        .createQueryBuilder(LogEntry, 'e')
-        .select('COALESCE(SUM(e.losses), 0)', 'n')
-        .where('e.contract_id = :id AND e.author = :grazier AND e.voided_at IS NULL', { id: contract.id, grazier: 'grazier' })
-        .getRawOne<{ n: number | string }>(),
-    () =>
-      em
-        .createQueryBuilder(LogEntry, 'e')
-        .select('e.residual_height_in', 'h')
-        .where('e.contract_id = :id AND e.residual_height_in IS NOT NULL AND e.voided_at IS NULL', { id: contract.id })
-        .orderBy('e.at_ms', 'DESC')
-        .addOrderBy('e.id', 'DESC')
-        .limit(1)
-        .getRawOne<{ h: number }>(),
+    () => lossesQuery.raw<{ n: number | string }>(em, { id: contract.id }),
+    () => residualQuery.raw<{ h: number }>(em, { id: contract.id }),
   ]);
   return logFigures({
     moves: moves.map(({ at, change }) => ({ at, change })),

@@ -17,7 +17,7 @@ import { cancelledMails, peopleOf, signedMails } from './contracts.mails';
 import { assertCancellable, assertCanRead, assertParty, partyOf } from './contracts.policy';
 import { refreshLogDocument } from './contract-documents';
 import { decodeCursor, encodeCursor } from './cursor';
-import { canonicalTermsText } from '../../../lib/contract-terms';
+import { canonicalTermsText, type ContractTerms } from '../../../lib/contract-terms';
 import {
   cancelContractSchema,
   contractListQuerySchema,
@@ -26,6 +26,7 @@ import {
   type CancelContractInput,
   type ContractListQuery,
   type ContractListResponse,
+  type ContractParty,
   type ContractView,
   type SignContractInput,
 } from '../../../lib/schemas/contract';
@@ -39,8 +40,14 @@ import { pickTerms } from '../../../lib/terms';
 export async function createContract(tx: EntityManager, block: Block, bid: Bid): Promise<Contract> {
   const id = crypto.randomUUID();
   const terms = await awardTerms(tx, id, block, block.ownerId, bid.grazierId, bid);
+  await tx.insert(Contract, tx.create(Contract, contractRecord(id, block, bid, terms)));
+  return tx.findOneByOrFail(Contract, { id });
+}
+
+/** The row createContract stores for version 1 of `terms` (to sign; nothing signed, grazed or agreed yet). */
+export function contractRecord(id: string, block: Block, bid: Bid, terms: ContractTerms): Omit<Contract, 'createdAt' | 'updatedAt'> {
   const termsText = canonicalTermsText(terms);
-  const contract = tx.create(Contract, {
+  return {
     id,
     blockId: block.id,
     bidId: bid.id,
@@ -66,9 +73,33 @@ export async function createContract(tx: EntityManager, block: Block, bid: Bid):
     revision: 0,
     logDocumentId: null,
     logDocumentKey: null,
+  };
+}
+
+/** One party's signature on one version of the terms, as signContract stores it (origin cut to the columns). */
+export function signatureRecord(s: {
+  contractId: string;
+  termsVersion: number;
+  party: ContractParty;
+  accountId: string;
+  input: SignContractInput;
+  termsHash: string;
+  origin: SigningOrigin;
+  at: Date;
+}): ContractSignature {
+  return Object.assign(new ContractSignature(), {
+    id: crypto.randomUUID(),
+    contractId: s.contractId,
+    termsVersion: s.termsVersion,
+    party: s.party,
+    accountId: s.accountId,
+    typedName: s.input.typedName,
+    cautionsAcknowledged: s.input.cautionsAcknowledged,
+    termsHash: s.termsHash,
+    ip: s.origin.ip?.slice(0, 64) ?? null,
+    userAgent: s.origin.userAgent?.slice(0, 400) ?? null,
+    signedAt: s.at,
   });
-  await tx.insert(Contract, contract);
-  return tx.findOneByOrFail(Contract, { id });
 }
 
 export { contractViews };
@@ -148,19 +179,7 @@ export async function signContract(ctx: ServiceContext, caller: Account, id: str
         throw AppError.conflict('The terms changed after you opened them: read them again, then sign', 'terms_changed');
       }
       const at = new Date(ctx.now());
-      await tx.insert(ContractSignature, {
-        id: crypto.randomUUID(),
-        contractId: contract.id,
-        termsVersion: version,
-        party,
-        accountId: caller.id,
-        typedName: input.typedName,
-        cautionsAcknowledged: input.cautionsAcknowledged,
-        termsHash: hash,
-        ip: origin.ip?.slice(0, 64) ?? null,
-        userAgent: origin.userAgent?.slice(0, 400) ?? null,
-        signedAt: at,
-      });
+      await tx.insert(ContractSignature, signatureRecord({ contractId: contract.id, termsVersion: version, party, accountId: caller.id, input, termsHash: hash, origin, at }));
       const complete = (await tx.countBy(ContractSignature, { contractId: contract.id, termsVersion: version })) === 2;
       if (complete && amendment) await putAmendmentInForce(tx, contract, amendment, at);
       if (complete && !amendment) await markSigned(tx, contract);

@@ -15,6 +15,7 @@ import { peopleOf, signOffAnsweredMails, signOffRequestedMails } from './contrac
 import { assertIsParty, assertParty } from './contracts.policy';
 import { refreshLogDocument } from './contract-documents';
 import { formatNumber } from '../../../lib/format';
+import type { LogFiguresResult } from '../../../lib/grazing/log-figures';
 import { signOffSchema, type ContractView, type SignOffInput } from '../../../lib/schemas/contract';
 
 // Sign-off: the grazier ends the grazing and proposes the head-days the log gives (the server counts them,
@@ -79,6 +80,34 @@ function statusConflict(contract: Contract): AppError {
   }
 }
 
+/** A round of sign-off as the grazier proposes it: the head-days and the day-by-day breakdown the log gives. */
+export function proposalRecord(p: { contractId: string; round: number; figures: LogFiguresResult; grazierName: string; comment: string | null; at: Date }): SignOff {
+  return Object.assign(new SignOff(), {
+    id: crypto.randomUUID(),
+    contractId: p.contractId,
+    round: p.round,
+    status: 'proposed' as const,
+    proposedHeadDays: p.figures.headDaysSoFar,
+    byDay: p.figures.byDay,
+    countedUntil: p.figures.until!,
+    comment: p.comment,
+    grazierName: p.grazierName,
+    proposedAt: p.at,
+    counterHeadDays: null,
+    disputeComment: null,
+    disputedAt: null,
+    growerName: null,
+    agreedHeadDays: null,
+    agreedAt: null,
+    agreedBy: null,
+  });
+}
+
+/** The grower's approval of a proposed round: the figure proposed becomes the agreed one. */
+export function approvalOf(round: Pick<SignOff, 'proposedHeadDays'>, growerName: string, at: Date) {
+  return { status: 'agreed' as const, agreedHeadDays: round.proposedHeadDays, agreedAt: at, agreedBy: 'grower' as const, growerName };
+}
+
 async function propose(ctx: ServiceContext, tx: EntityManager, contract: Contract, latest: SignOff | null, caller: Account, input: SignOffInput, at: Date): Promise<void> {
   const again = contract.status === 'sign-off' && latest?.status === 'disputed';
   if (contract.status !== 'grazing' && !again) throw statusConflict(contract);
@@ -94,25 +123,7 @@ async function propose(ctx: ServiceContext, tx: EntityManager, contract: Contrac
     const res = await tx.update(SignOff, { id: latest!.id, status: 'disputed' }, { status: 'superseded' });
     if (res.affected !== 1) throw AppError.conflict('The sign-off changed meanwhile; reload the log', 'sign_off_changed');
   }
-  const round = tx.create(SignOff, {
-    id: crypto.randomUUID(),
-    contractId: contract.id,
-    round: (latest?.round ?? 0) + 1,
-    status: 'proposed',
-    proposedHeadDays: figures.headDaysSoFar,
-    byDay: figures.byDay,
-    countedUntil: figures.until!,
-    comment: input.comment ?? null,
-    grazierName: caller.name,
-    proposedAt: at,
-    counterHeadDays: null,
-    disputeComment: null,
-    disputedAt: null,
-    growerName: null,
-    agreedHeadDays: null,
-    agreedAt: null,
-    agreedBy: null,
-  });
+  const round = tx.create(SignOff, proposalRecord({ contractId: contract.id, round: (latest?.round ?? 0) + 1, figures, grazierName: caller.name, comment: input.comment ?? null, at }));
   await tx.insert(SignOff, round);
   if (!again) {
     const res = await tx.update(Contract, { id: contract.id, status: 'grazing' }, { status: 'sign-off' });
@@ -135,7 +146,7 @@ async function answer(ctx: ServiceContext, tx: EntityManager, contract: Contract
   }
   const update =
     how === 'approve'
-      ? { status: 'agreed' as const, agreedHeadDays: latest.proposedHeadDays, agreedAt: at, agreedBy: 'grower' as const, growerName: caller.name }
+      ? approvalOf(latest, caller.name, at)
       : { status: 'disputed' as const, counterHeadDays: input.headDays!, disputeComment: input.comment!, disputedAt: at, growerName: caller.name };
   const res = await tx.update(SignOff, { id: latest.id, status: 'proposed' }, update);
   if (res.affected !== 1) throw AppError.conflict('The head-days were answered meanwhile; reload the log', 'already_answered');

@@ -1,4 +1,5 @@
-import { In, type EntityManager } from 'typeorm';
+import type { EntityManager } from 'typeorm';
+import { PreparedSelect } from '../../lib/db/prepared-select';
 import { readTogether } from '../../lib/db/reads';
 import { Account } from '../accounts/account.entity';
 import { Block } from '../blocks/block.entity';
@@ -26,17 +27,37 @@ function methodLabel(id: string | null): string | null {
   return m ? `${m.label} (${m.detail})` : null;
 }
 
+// What the views read of each invoice's contract, block, parties and newest PDF: only the columns shown (a
+// contract row also carries its terms and their text, which a list of invoices never needs).
+const viewContracts = new PreparedSelect((em) =>
+  em
+    .createQueryBuilder(Contract, 'c')
+    .select(['c.id', 'c.blockId', 'c.timeZone', 'c.startDate', 'c.endDate', 'c.headCount', 'c.species', 'c.animalClass', 'c.agreedHeadDays'])
+    .where('c.id IN (:...ids)'),
+);
+const viewBlocks = new PreparedSelect((em) =>
+  em.createQueryBuilder(Block, 'b').select(['b.id', 'b.name', 'b.status', 'b.crop', 'b.acres', 'b.placeName', 'b.timeZone']).where('b.id IN (:...ids)'),
+);
+const viewPeople = new PreparedSelect((em) => em.createQueryBuilder(Account, 'a').select(['a.id', 'a.name', 'a.businessName']).where('a.id IN (:...ids)'));
+const viewPdfs = new PreparedSelect((em) =>
+  em
+    .createQueryBuilder(Document, 'd')
+    .select(['d.id', 'd.invoiceId', 'd.version', 'd.sha256'])
+    .where("d.kind = 'invoice' AND d.invoice_id IN (:...ids)")
+    .orderBy('d.version', 'DESC'),
+);
+
 export async function invoiceViews(em: EntityManager, ctx: ViewContext, viewer: LinkViewer, invoices: Invoice[]): Promise<InvoiceView[]> {
   if (invoices.length === 0) return [];
-  const contracts = await em.findBy(Contract, { id: In([...new Set(invoices.map((i) => i.contractId))]) });
+  const contracts = await viewContracts.many(em, { ids: [...new Set(invoices.map((i) => i.contractId))] });
   const contractById = new Map(contracts.map((c) => [c.id, c]));
-  const [blocks, people] = await readTogether(em, [
-    () => em.findBy(Block, { id: In([...new Set(contracts.map((c) => c.blockId))]) }),
-    () => em.findBy(Account, { id: In([...new Set(invoices.flatMap((i) => [i.growerId, i.grazierId]))]) }),
+  const [blocks, people, docs] = await readTogether(em, [
+    () => viewBlocks.many(em, { ids: [...new Set(contracts.map((c) => c.blockId))] }),
+    () => viewPeople.many(em, { ids: [...new Set(invoices.flatMap((i) => [i.growerId, i.grazierId]))] }),
+    // The newest stored PDF of each (documents keep every version; the view names the latest).
+    () => viewPdfs.many(em, { ids: invoices.map((i) => i.id) }),
   ]);
   const blockById = new Map(blocks.map((b) => [b.id, b]));
-  // The newest stored PDF of each (documents keep every version; the view names the latest).
-  const docs = await em.find(Document, { where: { kind: 'invoice', invoiceId: In(invoices.map((i) => i.id)) }, order: { version: 'DESC' } });
   const pdfOf = new Map<string, Document>();
   for (const d of docs) if (d.invoiceId && !pdfOf.has(d.invoiceId)) pdfOf.set(d.invoiceId, d);
   const personById = new Map(people.map((p) => [p.id, p]));
@@ -45,10 +66,12 @@ export async function invoiceViews(em: EntityManager, ctx: ViewContext, viewer: 
     return p ? partyOf(p) : { id, name: 'Unknown', businessName: null };
   };
   const now = ctx.now();
+  const todays = new Map<string, string>();
+  const todayAt = (zone: string) => todays.get(zone) ?? todays.set(zone, todayIn(zone, now)).get(zone)!;
   return invoices.map((inv) => {
     const contract = contractById.get(inv.contractId)!;
     const block = blockById.get(contract.blockId)!;
-    const today = todayIn(contract.timeZone, now);
+    const today = todayAt(contract.timeZone);
     const paying = inv.payingUntil !== null && inv.payingUntil > now;
     return {
       id: inv.id,

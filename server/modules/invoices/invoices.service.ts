@@ -1,5 +1,7 @@
 import crypto from 'node:crypto';
 import type { EntityManager } from 'typeorm';
+import { PreparedSelect } from '../../lib/db/prepared-select';
+import { decodeCursor, encodeCursor } from '../contracts/cursor';
 import { AppError } from '../../lib/errors/app-error';
 import { inTransaction } from '../../lib/db/transaction';
 import { isUniqueViolation } from '../../lib/db/unique-violation';
@@ -16,15 +18,18 @@ import { invoiceViews } from './invoice-views';
 import { ensureInvoicePdf, markPaid, refreshInvoicePdf, syncInvoice } from './invoice-sync';
 import type { Document } from '../documents/documents.service';
 import { addDays, todayIn } from '../../../lib/day-keys';
-import { invoiceCharge, invoiceNumberLabel, invoicePrefix, invoiceTotals, seasonOf } from '../../../lib/invoices';
+import { displayStatus, invoiceCharge, invoiceNumberLabel, invoicePrefix, invoiceTotals, seasonOf } from '../../../lib/invoices';
 import { paymentFailureInWords } from '../../../lib/payments';
 import {
   createInvoiceSchema,
+  DEFAULT_INVOICE_PAGE,
   DEFAULT_PAYMENT_TERMS_DAYS,
   invoiceListQuerySchema,
   payInvoiceSchema,
+  type InvoiceListQuery,
   type InvoiceListView,
   type InvoiceSide,
+  type InvoiceStatus,
   type InvoiceView,
   type PayInvoiceInput,
 } from '../../../lib/schemas/invoice';
@@ -56,70 +61,7 @@ async function viewOf(ctx: ServiceContext, viewer: Account, inv: Invoice, em: En
 export async function createInvoice(ctx: ServiceContext, viewer: Account, contractId: string, body: unknown): Promise<InvoiceView> {
   const input = await check(createInvoiceSchema, body ?? {});
   const terms = input.paymentTermsDays ?? DEFAULT_PAYMENT_TERMS_DAYS;
-  const invoiceId = await inTransaction(ctx.ds, async (tx) => {
-    // Locked first: a second request for the same contract (a double tap, on any process) waits here and then
-    // finds the first one's invoice.
-    const contract = await lockContract(tx, contractId);
-    assertMayInvoice(viewer, contract);
-    const existing = await tx.findOneBy(Invoice, { contractId: contract.id });
-    if (existing) throw alreadyInvoiced(existing);
-    if (contract.status !== 'agreed') {
-      throw AppError.conflict('Invoice once both of you have agreed the head-days at sign-off.', 'not_agreed');
-    }
-    const charge = invoiceCharge({ basis: contract.basis, rate: contract.rate, agreedHeadDays: contract.agreedHeadDays, acres: contract.acres });
-    const grazier = await tx.findOneByOrFail(Account, { id: contract.grazierId });
-    const number = await nextInvoiceNumber(tx, grazier.id);
-    const issueDate = todayIn(contract.timeZone, ctx.now());
-    const id = crypto.randomUUID();
-    await tx.insert(Invoice, {
-      id,
-      contractId: contract.id,
-      grazierId: contract.grazierId,
-      growerId: contract.growerId,
-      number,
-      numberPrefix: invoicePrefix(grazier.businessName ?? grazier.name),
-      status: 'draft',
-      issueDate,
-      dueDate: addDays(issueDate, terms),
-      paymentTermsDays: terms,
-      currency: 'usd',
-      basis: contract.basis,
-      rate: contract.rate,
-      quantity: charge.quantity,
-      lines: charge.lines,
-      services: contract.services,
-      subtotalCents: charge.subtotalCents,
-      totalCents: charge.totalCents,
-      providerCustomerId: null,
-      providerInvoiceId: null,
-      providerStatus: null,
-      providerNumber: null,
-      syncAttempts: 0,
-      syncError: null,
-      syncNextAt: null,
-      payingUntil: null,
-      payAttempts: 0,
-      lastFailureCode: null,
-      lastFailureDeclineCode: null,
-      lastFailureMessage: null,
-      lastFailureAt: null,
-      paidAt: null,
-      paidDay: null,
-      paidWith: null,
-      voidedAt: null,
-      pdfShows: null,
-      createdAt: ctx.now(),
-      updatedAt: ctx.now(),
-    });
-    const moved = await tx
-      .createQueryBuilder()
-      .update(Contract)
-      .set({ status: 'invoiced' })
-      .where('id = :id AND status = :agreed', { id: contract.id, agreed: 'agreed' })
-      .execute();
-    if (moved.affected !== 1) throw AppError.conflict('The contract changed meanwhile; reload it and try again.', 'contract_changed');
-    return id;
-  }).catch(async (err: unknown) => {
+  const invoiceId = await inTransaction(ctx.ds, (tx) => writeInvoice(tx, ctx, viewer, contractId, terms)).catch(async (err: unknown) => {
     if (!isUniqueViolation(err)) throw err;
     const winner = await ctx.ds.manager.findOneBy(Invoice, { contractId });
     throw winner ? alreadyInvoiced(winner) : AppError.conflict('Invoices are being numbered by another request; try again.', 'numbering_busy');
@@ -127,6 +69,75 @@ export async function createInvoice(ctx: ServiceContext, viewer: Account, contra
   // After the commit: the payments API (idempotent, retried later if it is down), then the PDF once it is sent.
   await syncInvoice(ctx, invoiceId);
   return viewOf(ctx, viewer, await ctx.ds.manager.findOneByOrFail(Invoice, { id: invoiceId }));
+}
+
+/**
+ * createInvoice's transaction: the contract is agreed and not yet invoiced, the next number of the grazier's
+ * sequence is taken, the row is written and the contract moves to invoiced. Resolves with the invoice's id.
+ */
+export async function writeInvoice(tx: EntityManager, ctx: ServiceContext, viewer: Account, contractId: string, paymentTermsDays: number): Promise<string> {
+  // Locked first: a second request for the same contract (a double tap, on any process) waits here and then
+  // finds the first one's invoice.
+  const contract = await lockContract(tx, contractId);
+  assertMayInvoice(viewer, contract);
+  const existing = await tx.findOneBy(Invoice, { contractId: contract.id });
+  if (existing) throw alreadyInvoiced(existing);
+  if (contract.status !== 'agreed') {
+    throw AppError.conflict('Invoice once both of you have agreed the head-days at sign-off.', 'not_agreed');
+  }
+  const charge = invoiceCharge({ basis: contract.basis, rate: contract.rate, agreedHeadDays: contract.agreedHeadDays, acres: contract.acres });
+  const grazier = await tx.findOneByOrFail(Account, { id: contract.grazierId });
+  const number = await nextInvoiceNumber(tx, grazier.id);
+  const issueDate = todayIn(contract.timeZone, ctx.now());
+  const id = crypto.randomUUID();
+  await tx.insert(Invoice, {
+    id,
+    contractId: contract.id,
+    grazierId: contract.grazierId,
+    growerId: contract.growerId,
+    number,
+    numberPrefix: invoicePrefix(grazier.businessName ?? grazier.name),
+    status: 'draft',
+    issueDate,
+    dueDate: addDays(issueDate, paymentTermsDays),
+    paymentTermsDays,
+    currency: 'usd',
+    basis: contract.basis,
+    rate: contract.rate,
+    quantity: charge.quantity,
+    lines: charge.lines,
+    services: contract.services,
+    subtotalCents: charge.subtotalCents,
+    totalCents: charge.totalCents,
+    providerCustomerId: null,
+    providerInvoiceId: null,
+    providerStatus: null,
+    providerNumber: null,
+    syncAttempts: 0,
+    syncError: null,
+    syncNextAt: null,
+    payingUntil: null,
+    payAttempts: 0,
+    lastFailureCode: null,
+    lastFailureDeclineCode: null,
+    lastFailureMessage: null,
+    lastFailureAt: null,
+    paidAt: null,
+    paidDay: null,
+    paidWith: null,
+    voidedAt: null,
+    pdfShows: null,
+    createdAt: ctx.now(),
+    updatedAt: ctx.now(),
+  });
+  const moved = await tx
+    .createQueryBuilder()
+    .update(Contract)
+    .set({ status: 'invoiced' })
+    .where('id = :id AND status = :agreed', { id: contract.id, agreed: 'agreed' })
+    .execute();
+  if (moved.affected !== 1) throw AppError.conflict('The contract changed meanwhile; reload it and try again.', 'contract_changed');
+  return id;
 }
 
 /**
@@ -150,16 +161,105 @@ async function nextInvoiceNumber(tx: EntityManager, grazierId: string): Promise<
   throw AppError.conflict('Invoices are being numbered by another request; try again.', 'numbering_busy');
 }
 
+/** One side's invoices in list order (due date, number, id), from the start or after a cursor. */
+function invoicePage(side: InvoiceSide, after: boolean) {
+  return new PreparedSelect(
+    (em) => {
+      const qb = em
+        .createQueryBuilder(Invoice, 'i')
+        .where(side === 'receivable' ? 'i.grazier_id = :me' : 'i.grower_id = :me')
+        .orderBy('i.due_date', 'ASC')
+        .addOrderBy('i.number', 'ASC')
+        .addOrderBy('i.id', 'ASC');
+      if (after) qb.andWhere('(i.due_date > :due OR (i.due_date = :due AND (i.number > :number OR (i.number = :number AND i.id > :id))))');
+      return qb;
+    },
+    { limit: true },
+  );
+}
+
+/**
+ * Every invoice of one side in a few groups alike in what the totals need: the block's zone (for "today"), the
+ * status, and only then what that status's figure depends on — a sent invoice's due date (overdue or not), a
+ * paid one's year (the season) or, where no paid day was kept, its paid instant.
+ */
+const SENT_DUE = "CASE WHEN i.status = 'sent' THEN i.due_date END";
+const PAID_YEAR = "CASE WHEN i.status = 'paid' AND i.paid_at IS NOT NULL THEN SUBSTR(i.paid_day, 1, 4) END";
+const PAID_AT = "CASE WHEN i.status = 'paid' AND i.paid_day IS NULL THEN i.paid_at END";
+function invoiceTotalsOf(side: InvoiceSide) {
+  return new PreparedSelect((em) =>
+    em
+      .createQueryBuilder(Invoice, 'i')
+      .innerJoin(Contract, 'c', 'c.id = i.contract_id')
+      .select('c.time_zone', 'zone')
+      .addSelect('i.status', 'status')
+      .addSelect(SENT_DUE, 'due')
+      .addSelect(PAID_YEAR, 'paidYear')
+      .addSelect(PAID_AT, 'paidAt')
+      .addSelect('SUM(i.total_cents)', 'cents')
+      .addSelect('COUNT(*)', 'n')
+      .where(side === 'receivable' ? 'i.grazier_id = :me' : 'i.grower_id = :me')
+      .groupBy('c.time_zone')
+      .addGroupBy('i.status')
+      .addGroupBy(SENT_DUE)
+      .addGroupBy(PAID_YEAR)
+      .addGroupBy(PAID_AT),
+  );
+}
+
+const invoiceLists = {
+  first: { receivable: invoicePage('receivable', false), payable: invoicePage('payable', false) },
+  after: { receivable: invoicePage('receivable', true), payable: invoicePage('payable', true) },
+  totals: { receivable: invoiceTotalsOf('receivable'), payable: invoiceTotalsOf('payable') },
+};
+
+interface TotalsRow {
+  zone: string;
+  status: InvoiceStatus;
+  due: string | null;
+  paidYear: string | null;
+  paidAt: number | string | null;
+  cents: number | string;
+  n: number | string;
+}
+
+/**
+ * One side's invoices (receivable for a grazier, payable for a grower, unless `side` says), due first, a page at a
+ * time, with the totals and the count over the whole side. The page is cut in SQL by keyset; the totals are one
+ * grouped query, so the work per request is bounded by the page and the number of distinct due dates.
+ */
 export async function listInvoices(ctx: ServiceContext, viewer: Account, query: unknown): Promise<InvoiceListView> {
-  const q = await check(invoiceListQuerySchema, query ?? {});
+  const q = (await check(invoiceListQuerySchema, query ?? {})) as InvoiceListQuery;
   const side: InvoiceSide = q.side ?? (hasRole(viewer, 'grazier') ? 'receivable' : 'payable');
-  const rows = await ctx.ds.manager.find(Invoice, {
-    where: side === 'receivable' ? { grazierId: viewer.id } : { growerId: viewer.id },
-    order: { dueDate: 'ASC', number: 'ASC' },
+  const limit = q.limit ?? DEFAULT_INVOICE_PAGE;
+  const em = ctx.ds.manager;
+  const take = { me: viewer.id, limit: limit + 1 };
+  let rows: Invoice[];
+  if (q.cursor) {
+    const [due, number, id] = decodeCursor(q.cursor, (p): p is [string, number, string] => p.length === 3 && typeof p[0] === 'string' && Number.isSafeInteger(p[1]) && typeof p[2] === 'string');
+    rows = await invoiceLists.after[side].many(em, { ...take, due, number, id });
+  } else rows = await invoiceLists.first[side].many(em, take);
+  const page = rows.slice(0, limit);
+  const last = page.at(-1);
+  const [items, groups] = await Promise.all([invoiceViews(em, ctx, viewer, page), invoiceLists.totals[side].raw<TotalsRow>(em, { me: viewer.id })]);
+  const now = ctx.now();
+  const todays = new Map<string, string>();
+  const todayAt = (zone: string) => todays.get(zone) ?? todays.set(zone, todayIn(zone, now)).get(zone)!;
+  const lines = groups.map((g) => {
+    // Only the year of the paid day decides the season, so the year stands in for the day.
+    const paidDay = g.paidYear !== null ? `${g.paidYear}-01-01` : g.paidAt !== null ? todayIn(g.zone, Number(g.paidAt)) : null;
+    return { displayStatus: g.due !== null ? displayStatus(g.status, g.due, todayAt(g.zone)) : g.status, totalCents: Number(g.cents), paidDay, count: Number(g.n) };
   });
-  const items = await invoiceViews(ctx.ds.manager, ctx, viewer, rows);
-  const zone = items[0]?.block.timeZone ?? 'UTC';
-  return { side, items, totals: invoiceTotals(items.map((i) => ({ displayStatus: i.displayStatus, totalCents: i.totalCents, paidDay: i.receipt?.paidDay ?? null })), seasonOf(todayIn(zone, ctx.now()))) };
+  // "This season" on the calendar of the first invoice in list order (the first page's first item).
+  const first = q.cursor ? (await invoiceLists.first[side].many(em, { me: viewer.id, limit: 1 }))[0] : undefined;
+  const zone = (first ? (await invoiceViews(em, ctx, viewer, [first]))[0] : items[0])?.block.timeZone ?? 'UTC';
+  return {
+    side,
+    items,
+    totals: invoiceTotals(lines, seasonOf(todayIn(zone, now))),
+    total: lines.reduce((n, l) => n + l.count, 0),
+    nextCursor: rows.length > limit && last ? encodeCursor([last.dueDate, last.number, last.id]) : null,
+  };
 }
 
 export async function getInvoice(ctx: ServiceContext, viewer: Account, id: string): Promise<InvoiceView> {
