@@ -19,6 +19,7 @@ import { localFileStore } from './lib/storage/file-store';
 import type { PdfRenderer } from './lib/pdf/pdf-renderer';
 import { pdfkitRenderer } from './lib/pdf/pdfkit-renderer';
 import type { ServiceContext } from './lib/service-context';
+import { AfterAnswer } from './lib/http/after-answer';
 
 export interface AppDeps {
   dataSource: DataSource;
@@ -45,6 +46,8 @@ export interface AppDeps {
   rateLimits?: RateLimitOptions;
   /** Express's `trust proxy`: which hops' X-Forwarded-For to believe for the client address (default loopback). */
   trustProxy?: string | number;
+  /** Work routes run after answering; pass one to await it (shutdown, tests). */
+  afterAnswer?: AfterAnswer;
 }
 
 /** The ports the business modules use, from the app's dependencies (tests build one to call services directly). */
@@ -59,6 +62,7 @@ export function serviceContext(deps: AppDeps): ServiceContext {
     documents: localFileStore(deps.documentsDir),
     pdf: deps.pdf ?? pdfkitRenderer(),
     payments: deps.payments,
+    afterAnswer: deps.afterAnswer ?? new AfterAnswer(deps.log ?? console.error),
     tokenSecret: deps.tokens.secret,
   };
 }

@@ -3,6 +3,7 @@ import path from 'node:path';
 import { loadConfig, ConfigError } from './config/env';
 import { openDatabase } from './db/data-source';
 import { seedDemoOnce } from './db/seed/demo';
+import { AfterAnswer } from './lib/http/after-answer';
 import { createApp, serviceContext, type AppDeps } from './app';
 import type { MailPort } from './lib/mail/mail-port';
 import { MemoryMail } from './lib/mail/memory-mail';
@@ -34,6 +35,7 @@ async function main() {
     ? new SmtpMail({ ...config.smtp, from: config.mailFrom })
     : new MemoryMail((msg) => console.log(`[mail] ${JSON.stringify(msg.subject)}`), 500);
   const outbox = new OutboxSender(dataSource, mail, Date.now, console.error);
+  const afterAnswer = new AfterAnswer(console.error);
   outbox.start();
   const payments = createPayments(config.payments);
   console.log(`[fieldfold] payments: ${config.payments.mode === 'hosted' ? 'the hosted payments API' : `the local fake at ${config.payments.apiUrl}`}`);
@@ -48,6 +50,7 @@ async function main() {
     outbox,
     publicUrl: config.publicUrl,
     payments,
+    afterAnswer,
     // Several processes (PostgreSQL, or SERVER_PROCESSES > 1 on one SQLite file) count every limit in the shared
     // database, so a guesser gets no more tries by landing on another process; one process counts in memory.
     rateLimits: {
@@ -81,6 +84,7 @@ async function main() {
     closing = true;
     console.log(`[fieldfold] ${signal}: closing`);
     server.close(async () => {
+      await afterAnswer.settled();
       await invoiceRecovery.stop();
       await outbox.stop();
       await dataSource.destroy();

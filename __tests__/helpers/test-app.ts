@@ -8,6 +8,7 @@ import { freshTestDatabase } from './test-database';
 import { createApp, serviceContext, type AppDeps } from '../../server/app';
 import { MemoryMail } from '../../server/lib/mail/memory-mail';
 import { OutboxSender } from '../../server/lib/mail/outbox';
+import { AfterAnswer } from '../../server/lib/http/after-answer';
 import { createPayments, type PaymentsPort } from '../../server/lib/payments';
 import { DEFAULT_RATE_LIMITS, type RateLimitSettings } from '../../server/lib/http/rate-limit';
 
@@ -56,7 +57,10 @@ export async function makeTestApp(options: TestAppOptions = {}) {
   const log = options.log ?? (() => {});
   // The real outbox on the test database; tests call deliverMail() to run the sender to the end.
   const outbox = new OutboxSender(dataSource, options.mail ?? mail, now, log);
+  // Work the app starts after answering (a password-reset request's lookup and mail) is awaited before mail is delivered.
+  const afterAnswer = new AfterAnswer(log);
   const deps: AppDeps = {
+    afterAnswer,
     dataSource,
     tokens: TEST_TOKENS,
     log,
@@ -89,8 +93,11 @@ export async function makeTestApp(options: TestAppOptions = {}) {
     outbox,
     /** The same ports the app's services get, for tests that call a service directly. */
     ctx: serviceContext(deps),
-    /** Runs the outbox sender until nothing due is left; resolves with how many were sent. */
-    deliverMail: () => outbox.drain(),
+    /** Waits for work started after an answer, then runs the outbox sender until nothing due is left; resolves with how many were sent. */
+    deliverMail: async () => {
+      await afterAnswer.settled();
+      return outbox.drain();
+    },
     uploadsDir,
     documentsDir,
     /** Moves the app's clock (ISO instant with offset). */
@@ -98,6 +105,7 @@ export async function makeTestApp(options: TestAppOptions = {}) {
       clock.now = Date.parse(iso);
     },
     close: async () => {
+      await afterAnswer.settled();
       await outbox.stop();
       await (dataSource as DataSource).destroy();
       await database.drop();

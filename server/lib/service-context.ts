@@ -5,6 +5,7 @@ import type { PhotoStore } from './storage/photo-store';
 import type { FileStore } from './storage/file-store';
 import type { PdfRenderer } from './pdf/pdf-renderer';
 import type { PaymentsPort } from './payments';
+import type { AfterAnswer } from './http/after-answer';
 
 /**
  * What the business modules need from the outside world, built once by createApp from AppDeps. Every hosted
@@ -27,6 +28,8 @@ export interface ServiceContext {
   pdf: PdfRenderer;
   /** The payments API (server/lib/payments): the SDK adapter on the local fake or the hosted API; never inside a write transaction. */
   payments: PaymentsPort;
+  /** Work a route runs after it has answered (awaited at shutdown and by tests). */
+  afterAnswer: AfterAnswer;
   /** Signs the short-lived photo access tokens (the sign-in secret; tokens carry their own `typ`). */
   tokenSecret: string;
 }

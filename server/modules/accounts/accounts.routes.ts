@@ -33,9 +33,9 @@ export function accountsRouter(ctx: ServiceContext, tokenSettings: Omit<TokenSet
 
   // The same 202 and words whether or not the email has an account, sent before any lookup so the time to
   // answer says nothing either; the mail (if any) is queued after.
-  router.post('/auth/password-reset', validateBody(passwordResetRequestSchema), async (req, res) => {
+  router.post('/auth/password-reset', validateBody(passwordResetRequestSchema), (req, res) => {
     res.status(202).json({ message: 'If an account uses this email, a link to set a new password is on its way. It works for 30 minutes.' });
-    await requestPasswordReset(ctx, req.body).catch((err: unknown) => ctx.log(`[error] password reset request not queued: ${err instanceof Error ? err.message : String(err)}`));
+    ctx.afterAnswer.run('password reset request not queued', () => requestPasswordReset(ctx, req.body));
   });
 
   router.post('/auth/password-reset/confirm', validateBody(passwordResetConfirmSchema), async (req, res) => {
