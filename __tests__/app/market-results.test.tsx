@@ -62,8 +62,8 @@ function openBlock(i: number): BlockView {
   };
 }
 
-function page(items: BlockView[], total: number, pageNo: number) {
-  return { ok: true, status: 200, json: async () => ({ items, total, page: pageNo, pageSize: 10 }) };
+function page(items: BlockView[], total: number, pageNo: number, totalCapped = false) {
+  return { ok: true, status: 200, json: async () => ({ items, total, totalCapped, page: pageNo, pageSize: 10 }) };
 }
 
 describe('Find grazing results', () => {
@@ -85,6 +85,23 @@ describe('Find grazing results', () => {
     expect(await screen.findByText('Walnut middles 12')).toBeTruthy();
     expect(fetchMock.mock.calls[1][0]).toBe('/api/blocks?view=market&sort=distance&maxMiles=20&page=2&pageSize=10');
     expect(screen.queryByRole('button', { name: /Show more/ })).toBeNull();
+    queryClient.clear();
+  });
+
+  it('says "more than" when the server stopped counting, and offers more pages until one comes back short', async () => {
+    const ten = (from: number) => Array.from({ length: 10 }, (_, i) => openBlock(from + i));
+    fetchMock
+      .mockResolvedValueOnce(page(ten(1), 1000, 1, true))
+      .mockResolvedValueOnce(page(ten(11), 1000, 2, true))
+      .mockResolvedValueOnce(page(ten(21).slice(0, 3), 1000, 3, true));
+    const { queryClient } = await renderWithProviders(<MarketResults filters={{ view: 'market' }} filtering={false} onClear={jest.fn()} wide={false} />);
+    expect(await screen.findByText('More than 1,000 open blocks')).toBeTruthy();
+    fireEvent.press(screen.getByRole('button', { name: 'Show more' }));
+    expect(await screen.findByText('Walnut middles 20')).toBeTruthy();
+    fireEvent.press(screen.getByRole('button', { name: 'Show more' }));
+    expect(await screen.findByText('Walnut middles 23')).toBeTruthy();
+    await waitFor(() => expect(screen.queryByRole('button', { name: /Show more/ })).toBeNull());
+    expect(screen.getByText('That is every open block that matches.')).toBeTruthy();
     queryClient.clear();
   });
 

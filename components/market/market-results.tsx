@@ -20,14 +20,19 @@ export interface MarketResultsProps {
 /** The open blocks for the current filters, a page at a time: "Show more" adds the next page below. */
 export function MarketResults({ filters, filtering, onClear, wide }: MarketResultsProps) {
   const [pages, setPages] = useState(1);
+  // Past a capped total (the server counts exactly up to 1 000), the list ends at the first page that comes back short.
+  const [shortPage, setShortPage] = useState<number | null>(null);
   const key = JSON.stringify(filters);
-  useEffect(() => setPages(1), [key]);
+  useEffect(() => {
+    setPages(1);
+    setShortPage(null);
+  }, [key]);
   const first = useBlocks({ ...filters, page: 1, pageSize: MARKET_PAGE_SIZE });
 
   if (first.isPending) return <LoadingState label="Finding open blocks…" />;
   if (first.isError && !first.data) return <ErrorState message={first.error.message} onRetry={() => void first.refetch()} />;
 
-  const { total, items } = first.data;
+  const { total, totalCapped, items } = first.data;
   if (total === 0) {
     return filtering ? (
       <EmptyState title="No open blocks match" action={<Button title="Clear the filters" variant="secondary" onPress={onClear} />}>
@@ -41,11 +46,13 @@ export function MarketResults({ filters, filtering, onClear, wide }: MarketResul
   }
 
   const shown = Math.min(total, pages * MARKET_PAGE_SIZE);
+  const more = totalCapped ? shortPage === null && items.length === MARKET_PAGE_SIZE : shown < total;
   return (
     <View style={styles.col} aria-busy={first.isFetching}>
       <View style={styles.summary}>
         <Text variant="label" testID="market-count">
-          {formatNumber(total)} open block{total === 1 ? '' : 's'}
+          {totalCapped ? 'More than ' : ''}
+          {formatNumber(total)} open block{total === 1 && !totalCapped ? '' : 's'}
           {filtering ? ' match' : ''}
         </Text>
         {first.isPlaceholderData ? (
@@ -57,11 +64,11 @@ export function MarketResults({ filters, filtering, onClear, wide }: MarketResul
       {first.isError ? <ErrorState message={first.error.message} onRetry={() => void first.refetch()} /> : null}
       <Cards items={items} wide={wide} />
       {Array.from({ length: pages - 1 }, (_, i) => (
-        <MorePage key={i + 2} filters={filters} page={i + 2} wide={wide} />
+        <MorePage key={i + 2} filters={filters} page={i + 2} wide={wide} onShort={setShortPage} />
       ))}
-      {shown < total ? (
-        <Button title={`Show more (${formatNumber(total - shown)} left)`} variant="secondary" onPress={() => setPages((p) => p + 1)} />
-      ) : total > MARKET_PAGE_SIZE ? (
+      {more ? (
+        <Button title={totalCapped ? 'Show more' : `Show more (${formatNumber(total - shown)} left)`} variant="secondary" onPress={() => setPages((p) => p + 1)} />
+      ) : total > MARKET_PAGE_SIZE || totalCapped ? (
         <Text variant="caption" tone="muted" style={styles.end}>
           That is every open block that matches.
         </Text>
@@ -80,8 +87,12 @@ function Cards({ items, wide }: { items: BlockView[]; wide: boolean }) {
   );
 }
 
-function MorePage({ filters, page, wide }: { filters: BlockFilters; page: number; wide: boolean }) {
+function MorePage({ filters, page, wide, onShort }: { filters: BlockFilters; page: number; wide: boolean; onShort: (page: number) => void }) {
   const q = useBlocks({ ...filters, page, pageSize: MARKET_PAGE_SIZE });
+  const short = q.data !== undefined && q.data.items.length < MARKET_PAGE_SIZE;
+  useEffect(() => {
+    if (short) onShort(page);
+  }, [short, page, onShort]);
   if (q.isPending) return <LoadingState label="Loading more blocks…" />;
   if (q.isError) return <ErrorState message={q.error.message} onRetry={() => void q.refetch()} />;
   return <Cards items={q.data.items} wide={wide} />;

@@ -301,7 +301,9 @@ export interface BlockView {
 
 export interface BlockListResponse {
   items: BlockView[];
+  /** How many blocks the list holds; when `totalCapped`, more than this (the server counts exactly up to 1 000 or the page's end). */
   total: number;
+  totalCapped: boolean;
   page: number;
   pageSize: number;
 }

@@ -23,6 +23,7 @@ import { PostgresFunctions1766200000000 } from './migrations/1766200000000-postg
 import { RateLimitHits1766200000100 } from './migrations/1766200000100-rate-limit-hits';
 import { InvoiceListOrder1766300000000 } from './migrations/1766300000000-invoice-list-order';
 import { LogMovesIndex1766300100000 } from './migrations/1766300100000-log-moves-index';
+import { MarketPlaceIndex1766400000000 } from './migrations/1766400000000-market-place-index';
 import { registerSqlFunctions } from './sql-functions';
 
 export const entities = [Account, Session, PasswordReset, Block, BlockPhoto, Bid, Contract, ContractSignature, ContractAmendment, LogEntry, LogPhoto, SignOff, OutboxMessage, Document, Invoice, InvoiceCounter, PaymentEventRecord, PaymentCustomer];
@@ -41,6 +42,7 @@ export const migrations = [
   RateLimitHits1766200000100,
   InvoiceListOrder1766300000000,
   LogMovesIndex1766300100000,
+  MarketPlaceIndex1766400000000,
 ];
 
 /** Where the data lives: a SQLite file path (':memory:' for tests) or a postgres:// URL (DATABASE_URL). */

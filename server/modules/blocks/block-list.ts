@@ -15,7 +15,8 @@ import { GRAZING_SPECIES, type BlockListQuery, type BlockSort, type GrazingSpeci
 //
 // The pattern for every list that can grow (bids, contracts' log, invoices): a shared query schema with a
 // page-size cap; filters as SQL conditions on stored, indexed columns (derived figures stored on write by
-// lib/ functions); COUNT(*) for the total; ORDER BY an indexed column + LIMIT/OFFSET; load the page's rows by id.
+// lib/ functions); a count that stops past the page (EXACT_COUNT_UP_TO); ORDER BY an indexed column +
+// LIMIT/OFFSET; load the page's rows by id.
 
 export type ListView = 'mine' | 'market';
 
@@ -34,8 +35,17 @@ export interface ListAsk extends Omit<BlockListQuery, 'view' | 'sort' | 'page' |
 
 export interface BlockPage {
   blocks: Block[];
+  /** How many blocks the list holds; when `totalCapped`, it holds more than this (counting stopped past it). */
   total: number;
+  totalCapped: boolean;
 }
+
+/**
+ * The list counts its blocks exactly up to this many, or to the end of the page asked for if that is further;
+ * past it the answer is "more than". Counting every one of 10 000 open blocks cost more than finding and
+ * building the page (2–3 ms of a market request on the bench machine); nobody pages through a thousand.
+ */
+export const EXACT_COUNT_UP_TO = 1000;
 
 type Qb = SelectQueryBuilder<Block>;
 
@@ -46,6 +56,7 @@ const zonesEndingSoon = new PreparedSelect((em) =>
   em.createQueryBuilder(Block, 'b').select('DISTINCT b.time_zone', 'tz').where("b.status = 'open'").andWhere('b.graze_until >= :utc AND b.graze_until <= :next'),
 );
 const blocksById = new PreparedSelect((em) => em.createQueryBuilder(Block, 'b').where('b.id IN (:...ids)'));
+const namesById = new PreparedSelect((em) => em.createQueryBuilder(Block, 'b').select('b.id', 'id').addSelect('b.name', 'name').where('b.id IN (:...ids)'));
 
 /**
  * Which zones' "today" decides whether a block whose last day is today or tomorrow in UTC is still in the
@@ -254,41 +265,79 @@ async function pageByFigure(base: Qb, sort: FigureSort, offset: number, limit: n
 /** First radius tried for "nearest first", in miles; it grows until the disk holds the page. */
 const FIRST_RADIUS_MILES = 30;
 
-/** The page's ids nearest first: the smallest disk round home holding every block up to the page's end. */
-async function pageByDistance(base: Qb, home: LatLng, maxMiles: number | undefined, total: number, offset: number, limit: number): Promise<string[]> {
+/**
+ * The page's ids nearest first: the smallest disk round home holding every block up to the page's end. The disk's
+ * rows come from the place index alone (id and place, no table look-ups) and lib's distance decides in JS what
+ * lies inside; names are read only for blocks at exactly the same distance as another, which the name orders.
+ */
+async function pageByDistance(ds: DataSource, base: Qb, home: LatLng, maxMiles: number | undefined, total: number, offset: number, limit: number): Promise<string[]> {
   const needed = offset + limit;
   const widest = maxMiles ?? Number.POSITIVE_INFINITY;
   let miles = needed >= total ? widest : Math.min(widest, FIRST_RADIUS_MILES);
-  let rows: Array<{ id: string; name: string; latitude: number; longitude: number }>;
+  let rows: Array<{ id: string; d: number }>;
   for (;;) {
-    const qb = base.clone().select('b.id', 'id').addSelect('b.name', 'name').addSelect('b.latitude', 'latitude').addSelect('b.longitude', 'longitude');
-    if (Number.isFinite(miles) && miles !== maxMiles) whereWithin(qb, home, miles, 'disk');
-    rows = await qb.getRawMany();
+    const qb = base.clone().select('b.id', 'id').addSelect('b.latitude', 'latitude').addSelect('b.longitude', 'longitude');
+    const disk = Number.isFinite(miles) && miles !== maxMiles;
+    const box = disk ? boundingBox(home, miles) : null;
+    if (box) whereInBox(qb, box, 'disk');
+    const found: Array<{ id: string; latitude: number; longitude: number }> = await qb.getRawMany();
+    rows = found.map((r) => ({ id: r.id, d: distanceMiles(home, r) }));
+    if (disk) rows = rows.filter((r) => r.d <= miles);
     if (rows.length >= needed || !Number.isFinite(miles) || miles >= widest) break;
     // Grow by the area still missing (blocks per square mile so far), at least doubling.
     miles = Math.min(widest, miles * Math.max(2, 1.25 * Math.sqrt(needed / Math.max(1, rows.length))));
     if (miles > 13_000) miles = widest;
   }
+  rows.sort((a, b) => a.d - b.d);
+  // Blocks at equal distances, in a run that starts within the page or at its end, are put in order by name, then id.
+  const tied: string[] = [];
+  for (let i = 0; i < rows.length && i <= needed; ) {
+    let j = i + 1;
+    while (j < rows.length && rows[j].d === rows[i].d) j++;
+    if (j - i > 1) for (let k = i; k < j; k++) tied.push(rows[k].id);
+    i = j;
+  }
+  const names = new Map<string, string>();
+  for (let i = 0; i < tied.length; i += 500) {
+    for (const r of await namesById.raw<{ id: string; name: string }>(ds.manager, { ids: tied.slice(i, i + 500) })) names.set(r.id, r.name);
+  }
   return rows
-    .map((r) => ({ ...r, d: distanceMiles(home, r) }))
+    .map((r) => ({ ...r, name: names.get(r.id) ?? '' }))
     .sort((a, b) => a.d - b.d || byName(a, b))
     .slice(offset, offset + limit)
     .map((r) => r.id);
 }
 
-/** The blocks of one page of the list and how many the list holds. */
-export async function findBlockPage(ds: DataSource, nowMs: number, viewer: ListViewer, view: ListView, q: ListAsk): Promise<BlockPage> {
+/** How many rows `base` selects, counting no further than `limit`. */
+async function countUpTo(ds: DataSource, base: Qb, limit: number): Promise<number> {
+  const [sql, params] = base.clone().select('1', 'one').limit(limit).getQueryAndParameters();
+  const [row] = await ds.query(`SELECT COUNT(*) AS n FROM (${sql}) capped`, params);
+  return Number(row.n);
+}
+
+/** The blocks of one page of the list and how many the list holds (exactly up to `exactCountUpTo`). */
+export async function findBlockPage(
+  ds: DataSource,
+  nowMs: number,
+  viewer: ListViewer,
+  view: ListView,
+  q: ListAsk,
+  { exactCountUpTo = EXACT_COUNT_UP_TO } = {},
+): Promise<BlockPage> {
   // From on or after To leaves no whole day to share with any block.
-  if (q.from && q.to && !(q.from < q.to)) return { blocks: [], total: 0 };
+  if (q.from && q.to && !(q.from < q.to)) return { blocks: [], total: 0, totalCapped: false };
   const base = await filtered(ds, nowMs, viewer, view, q);
-  const total = Number((await base.clone().select('COUNT(*)', 'n').getRawOne<{ n: number }>())!.n);
   const offset = (q.page - 1) * q.pageSize;
-  if (offset >= total) return { blocks: [], total };
+  const upTo = Math.max(exactCountUpTo, offset + q.pageSize);
+  const counted = await countUpTo(ds, base, upTo + 1);
+  const totalCapped = counted > upTo;
+  const total = Math.min(counted, upTo);
+  if (offset >= total) return { blocks: [], total, totalCapped };
   const ids =
     q.sort === 'distance'
-      ? await pageByDistance(base, viewer.home!, q.maxMiles, total, offset, q.pageSize)
+      ? await pageByDistance(ds, base, viewer.home!, q.maxMiles, totalCapped ? Number.POSITIVE_INFINITY : total, offset, q.pageSize)
       : await pageByFigure(base, figureSort(ds, q.sort, viewer), offset, q.pageSize);
   const found = ids.length ? await blocksById.many(ds.manager, { ids }) : [];
   const byId = new Map(found.map((b) => [b.id, b]));
-  return { blocks: ids.map((id) => byId.get(id)!).filter(Boolean), total };
+  return { blocks: ids.map((id) => byId.get(id)!).filter(Boolean), total, totalCapped };
 }

@@ -256,6 +256,6 @@ export async function listBlocks(ctx: ServiceContext, viewer: Account, rawQuery:
   const sort = q.sort ?? (view === 'mine' ? 'newest' : home ? 'distance' : 'window');
   const page = q.page ?? 1;
   const pageSize = q.pageSize ?? 20;
-  const { blocks, total } = await findBlockPage(ctx.ds, ctx.now(), listViewer, view, { ...q, sort, page, pageSize });
-  return { items: await blockViews(ctx, viewer, blocks), total, page, pageSize };
+  const { blocks, total, totalCapped } = await findBlockPage(ctx.ds, ctx.now(), listViewer, view, { ...q, sort, page, pageSize });
+  return { items: await blockViews(ctx, viewer, blocks), total, totalCapped, page, pageSize };
 }
