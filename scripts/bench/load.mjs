@@ -252,6 +252,13 @@ export async function benchLoad(row, { databaseUrl = null } = {}) {
       },
     ];
     try {
+      // The floor: the cheapest signed-in request (headers, limits, the token, the session and its account, a small
+      // JSON answer) at the same 20 connections. No list can answer faster than this on the machine at hand, so a
+      // read's p95 is best read beside it. A figure, not a budget.
+      {
+        const me = await cannon({ url: `${base}/api/me`, headers: grazier });
+        row(`floor: GET /api/me (signed in, no list), ${CONNECTIONS} conn (figure only)`, `${me.rps.toFixed(0)} req/s · p50 ${ms(me.p50)} · p95 ${ms(me.p95)} · p99 ${ms(me.p99)}${me.bad ? ` · ${me.bad} failed` : ''}`);
+      }
       for (const read of reads) {
         const url = `${base}${read.path ?? '/api/blocks'}?${new URLSearchParams(read.query)}`;
         const first = await fetch(url, { headers: read.headers });
