@@ -178,6 +178,25 @@ describe('GET /api/blocks', () => {
     expect(res.body.items.some((b: { id: string }) => b.id === d.draft.id)).toBe(false);
   });
 
+  it('When a grazier lists the market, then each block comes as a card: the same figures as the block page, the cautions as flags without their text, no notes, spray records or forage measurements', async () => {
+    await district();
+    const z = await m.grazier();
+    const res = await m.api().get('/api/blocks').set(z.auth);
+    expect(res.status).toBe(200);
+    for (const card of res.body.items) {
+      const page = await m.api().get(`/api/blocks/${card.id}`).set(z.auth);
+      expect(page.status).toBe(200);
+      const { cautions, sprayRecords, notes, forageSamples, forageHeight, photos, ...figures } = page.body.block;
+      expect(sprayRecords).toBeDefined();
+      expect(notes !== undefined && forageSamples !== undefined && forageHeight !== undefined).toBe(true);
+      expect(card).toEqual({ ...figures, photos: expect.any(Array), cautions: cautions.map((c: { key: string; tone: string; title: string }) => ({ key: c.key, tone: c.tone, title: c.title })) });
+      expect(card.photos).toHaveLength(photos.length);
+      expect(Object.keys(card)).not.toEqual(expect.arrayContaining(['notes']));
+      for (const c of card.cautions) expect(c).not.toHaveProperty('text');
+    }
+    expect(res.body.items.some((c: { cautions: unknown[] }) => c.cautions.length > 0)).toBe(true);
+  });
+
   it('When filters are given, then distance, size, species, days of feed and dates narrow the list', async () => {
     await district();
     const z = await m.grazier();

@@ -13,7 +13,7 @@ import { hasRole } from '../../server/lib/http/auth';
 import type { ServiceContext } from '../../server/lib/service-context';
 import type { Account } from '../../server/modules/accounts/account.entity';
 import { Block } from '../../server/modules/blocks/block.entity';
-import { blockViews, flockOf, homeOf } from '../../server/modules/blocks/block-views';
+import { blockCard, blockViews, flockOf, homeOf } from '../../server/modules/blocks/block-views';
 import { listBlocks } from '../../server/modules/blocks/blocks.service';
 import { findBlockPage } from '../../server/modules/blocks/block-list';
 import { allowableForage, capacity, daysForHead } from '../../lib/grazing/capacity';
@@ -117,7 +117,7 @@ async function referenceListBlocks(ctx: ServiceContext, viewer: Account, rawQuer
   const page = q.page ?? 1;
   const pageSize = q.pageSize ?? 20;
   const slice = rows.slice((page - 1) * pageSize, page * pageSize).map((r) => r.block);
-  return { items: await blockViews(ctx, viewer, slice), total: rows.length, page, pageSize };
+  return { items: (await blockViews(ctx, viewer, slice)).map(blockCard), total: rows.length, page, pageSize };
 }
 
 // ——— the season ———

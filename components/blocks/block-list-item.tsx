@@ -1,13 +1,13 @@
 import { Pressable, StyleSheet, View } from 'react-native';
 import { useRouter } from 'expo-router';
-import type { BlockView } from '@/lib/schemas/block';
+import type { BlockCardView } from '@/lib/schemas/block';
 import { formatDay, formatDayRange, formatNumber } from '@/lib/format';
 import { Text } from '@/components/ui';
 import { colors, radius, space } from '@/components/ui/theme';
 import { StatusBadge } from './status-badge';
 
 /** One of the grower's own blocks in their list. */
-export function OwnBlockItem({ block }: { block: BlockView }) {
+export function OwnBlockItem({ block }: { block: BlockCardView }) {
   const router = useRouter();
   return (
       <Pressable

@@ -1,6 +1,6 @@
 import { Image, Pressable, StyleSheet, View } from 'react-native';
 import { Link } from 'expo-router';
-import type { BlockView } from '@/lib/schemas/block';
+import type { BlockCardView } from '@/lib/schemas/block';
 import { formatDay, formatDayRange, formatNumber, formatWholeDays } from '@/lib/format';
 import { Text } from '@/components/ui';
 import { colors, radius, space } from '@/components/ui/theme';
@@ -8,7 +8,7 @@ import { photoSrc } from '@/components/blocks/photo-strip';
 import { CautionFlag, flaggedCautions } from './caution-flag';
 
 /** One open block in Find grazing: what a grazier decides on at a glance; the whole card opens the block. */
-export function BlockCard({ block, wide }: { block: BlockView; wide?: boolean }) {
+export function BlockCard({ block, wide }: { block: BlockCardView; wide?: boolean }) {
   const photo = block.photos[0];
   const flagged = flaggedCautions(block);
   const caution = flagged[0];

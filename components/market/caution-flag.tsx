@@ -1,11 +1,10 @@
 import { StyleSheet, View } from 'react-native';
-import type { Caution } from '@/lib/grazing/safety';
-import type { BlockView } from '@/lib/schemas/block';
+import type { BlockView, CautionFlagView } from '@/lib/schemas/block';
 import { Text } from '@/components/ui';
 import { colors, radius, space } from '@/components/ui/theme';
 
 /** A spray restriction that ends before the window opens does not limit the stay, so it does not lead on a card. */
-function binds(c: Caution, block: Pick<BlockView, 'earliestSafeDate' | 'windowStart'>): boolean {
+function binds(c: CautionFlagView, block: Pick<BlockView, 'earliestSafeDate' | 'windowStart'>): boolean {
   return !(c.key === 'pesticide-restriction' && block.earliestSafeDate != null && block.earliestSafeDate < block.windowStart);
 }
 
@@ -13,7 +12,7 @@ function binds(c: Caution, block: Pick<BlockView, 'earliestSafeDate' | 'windowSt
  * The cautions worth flagging on a card, most serious first (the server's order); info notes and spent spray
  * restrictions are left to the block page, which lists every caution.
  */
-export function flaggedCautions(block: Pick<BlockView, 'cautions' | 'earliestSafeDate' | 'windowStart'>): Caution[] {
+export function flaggedCautions<C extends CautionFlagView>(block: Pick<BlockView, 'earliestSafeDate' | 'windowStart'> & { cautions: readonly C[] }): C[] {
   return block.cautions.filter((c) => c.tone !== 'info' && binds(c, block));
 }
 
@@ -24,7 +23,7 @@ const look = {
 };
 
 /** A one-line flag for a caution; the full text is on the block page. */
-export function CautionFlag({ caution, more }: { caution: Caution; more?: number }) {
+export function CautionFlag({ caution, more }: { caution: CautionFlagView; more?: number }) {
   const l = look[caution.tone];
   return (
     <View style={[styles.flag, { backgroundColor: l.bg, borderColor: l.line }]} aria-label={`Caution: ${caution.title}`}>

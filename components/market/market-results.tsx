@@ -2,7 +2,7 @@ import { useEffect, useState } from 'react';
 import { StyleSheet, View } from 'react-native';
 import type { BlockFilters } from '@/hooks/api/blocks';
 import { useBlocks } from '@/hooks/api/blocks';
-import type { BlockView } from '@/lib/schemas/block';
+import type { BlockCardView } from '@/lib/schemas/block';
 import { formatNumber } from '@/lib/format';
 import { Button, EmptyState, ErrorState, LoadingState, Text } from '@/components/ui';
 import { space } from '@/components/ui/theme';
@@ -77,7 +77,7 @@ export function MarketResults({ filters, filtering, onClear, wide }: MarketResul
   );
 }
 
-function Cards({ items, wide }: { items: BlockView[]; wide: boolean }) {
+function Cards({ items, wide }: { items: BlockCardView[]; wide: boolean }) {
   return (
     <View style={styles.col}>
       {items.map((b) => (

@@ -299,8 +299,18 @@ export interface BlockView {
   updatedAt: string;
 }
 
+/** A caution as a list's card flags it (its title and how serious); the block page carries the full text. */
+export type CautionFlagView = Omit<Caution, 'text'>;
+
+/**
+ * One block in a list (Find grazing, the grower's own blocks): every figure a card shows or the list sorts by, the
+ * cautions as flags; the grower's notes, the spray records, the forage measurements and the cautions' full text are
+ * on the block page (`GET /api/blocks/:id`). The cautions' text alone was over half of a market page's JSON.
+ */
+export type BlockCardView = Omit<BlockView, 'cautions' | 'sprayRecords' | 'notes' | 'forageSamples' | 'forageHeight'> & { cautions: CautionFlagView[] };
+
 export interface BlockListResponse {
-  items: BlockView[];
+  items: BlockCardView[];
   /** How many blocks the list holds; when `totalCapped`, more than this (the server counts exactly up to 1 000 or the page's end). */
   total: number;
   totalCapped: boolean;

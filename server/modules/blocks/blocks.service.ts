@@ -12,7 +12,7 @@ import { Bid } from '../bids/bid.entity';
 import { Contract } from '../contracts/contract.entity';
 import { Block } from './block.entity';
 import { assertCanViewBlock, assertEditable, assertOwnsBlock, type BlockFacts } from './blocks.policy';
-import { blockInputOf, blockViews, homeOf, flockOf } from './block-views';
+import { blockCard, blockInputOf, blockViews, homeOf, flockOf } from './block-views';
 import { findBlockPage, type ListViewer } from './block-list';
 import {
   blockInputSchema,
@@ -257,5 +257,5 @@ export async function listBlocks(ctx: ServiceContext, viewer: Account, rawQuery:
   const page = q.page ?? 1;
   const pageSize = q.pageSize ?? 20;
   const { blocks, total, totalCapped } = await findBlockPage(ctx.ds, ctx.now(), listViewer, view, { ...q, sort, page, pageSize });
-  return { items: await blockViews(ctx, viewer, blocks), total, totalCapped, page, pageSize };
+  return { items: (await blockViews(ctx, viewer, blocks)).map(blockCard), total, totalCapped, page, pageSize };
 }
