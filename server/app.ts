@@ -52,17 +52,18 @@ export interface AppDeps {
 
 /** The ports the business modules use, from the app's dependencies (tests build one to call services directly). */
 export function serviceContext(deps: AppDeps): ServiceContext {
+  const log = deps.log ?? console.error;
   return {
     ds: deps.dataSource,
     outbox: deps.outbox,
     links: appLinks(deps.publicUrl ?? 'http://localhost:8080'),
     now: deps.now ?? Date.now,
-    log: deps.log ?? console.error,
+    log,
     photos: localPhotoStore(deps.uploadsDir),
     documents: localFileStore(deps.documentsDir),
     pdf: deps.pdf ?? pdfkitRenderer(),
     payments: deps.payments,
-    afterAnswer: deps.afterAnswer ?? new AfterAnswer(deps.log ?? console.error),
+    afterAnswer: deps.afterAnswer ?? new AfterAnswer(log),
     tokenSecret: deps.tokens.secret,
   };
 }

@@ -11,7 +11,14 @@ export class AfterAnswer {
 
   /** Starts `work` now and keeps it until it settles. */
   run(label: string, work: () => Promise<void>): void {
-    const p: Promise<void> = work()
+    let started: Promise<void>;
+    try {
+      started = work();
+    } catch (err) {
+      // A `work` that throws before it returns its promise is logged like one that rejects: the route has answered.
+      started = Promise.reject(err);
+    }
+    const p: Promise<void> = started
       .catch((err: unknown) => this.log(`[error] ${label}: ${err instanceof Error ? err.message : String(err)}`))
       .finally(() => this.pending.delete(p));
     this.pending.add(p);
