@@ -7,7 +7,7 @@ import os from 'node:os';
 import path from 'node:path';
 import { createRequire } from 'node:module';
 import { performance } from 'node:perf_hooks';
-import autocannon from 'autocannon';
+import { spawn } from 'node:child_process';
 import { freePort, root, startServer, stopServers } from '../lib.mjs';
 import { PASSWORD, seedSeason } from './season.mjs';
 export { SEASON } from './season.mjs';
@@ -34,18 +34,30 @@ function percentiles(times) {
 }
 const ms = (x) => `${x.toFixed(x < 10 ? 2 : 1)} ms`;
 
-/** autocannon for `DURATION_S` s at `connections`, with every response's time kept (autocannon itself reports no p95). */
-async function cannon({ url, headers = {}, method = 'GET', body, connections = CONNECTIONS, duration = DURATION_S, requests }) {
-  const times = [];
-  let bad = 0;
-  const instance = autocannon({ url, method, headers: { ...headers, ...(body ? { 'content-type': 'application/json' } : {}) }, body, connections, duration, requests });
-  instance.on('response', (_client, status, _bytes, t) => {
-    if (status >= 400) bad += 1;
-    times.push(t);
-  });
-  const result = await instance;
-  return { ...percentiles(times), times, rps: result.requests.average, bad: bad + result.errors + result.timeouts };
+/**
+ * autocannon for `DURATION_S` s at `connections` per run, every run at once in one child process
+ * (scripts/bench/cannon.mjs), with every response's time kept (autocannon itself reports no p95).
+ */
+async function cannonTogether(runs) {
+  const asked = runs.map(({ url, headers = {}, method = 'GET', body, connections = CONNECTIONS, duration = DURATION_S, requests }) => ({ url, headers, method, body, connections, duration, requests }));
+  const child = spawn(process.execPath, [path.join(root, 'scripts/bench/cannon.mjs'), JSON.stringify(asked)], { cwd: root, stdio: ['ignore', 'pipe', 'pipe'] });
+  let out = '';
+  let err = '';
+  child.stdout.on('data', (d) => (out += d));
+  child.stderr.on('data', (d) => (err += d));
+  const code = await new Promise((resolve) => child.on('close', resolve));
+  if (code !== 0) throw new Error(`autocannon against ${asked.map((r) => r.url).join(', ')} exited ${code}: ${err}`);
+  return JSON.parse(out).map(({ times, rps, bad }) => ({ ...percentiles(times), times, rps, bad }));
 }
+
+const cannon = async (run) => (await cannonTogether([run]))[0];
+
+/** Seconds of the same load, thrown away, before each measured run: the server just started, and V8 is still optimising the route's code. */
+const WARM_UP_S = 2;
+const warmedCannon = async (run) => {
+  await cannon({ ...run, duration: WARM_UP_S });
+  return cannon(run);
+};
 
 /** One request at a time, `n` times (the server alone, nothing else waiting). */
 async function alone(n, fn) {
@@ -256,7 +268,7 @@ export async function benchLoad(row, { databaseUrl = null } = {}) {
       // JSON answer) at the same 20 connections. No list can answer faster than this on the machine at hand, so a
       // read's p95 is best read beside it. A figure, not a budget.
       {
-        const me = await cannon({ url: `${base}/api/me`, headers: grazier });
+        const me = await warmedCannon({ url: `${base}/api/me`, headers: grazier });
         row(`floor: GET /api/me (signed in, no list), ${CONNECTIONS} conn (figure only)`, `${me.rps.toFixed(0)} req/s · p50 ${ms(me.p50)} · p95 ${ms(me.p95)} · p99 ${ms(me.p99)}${me.bad ? ` · ${me.bad} failed` : ''}`);
       }
       for (const read of reads) {
@@ -269,7 +281,7 @@ export async function benchLoad(row, { databaseUrl = null } = {}) {
           const res = await fetch(url, { headers: read.headers });
           await res.arrayBuffer();
         });
-        const load = await cannon({ url, headers: read.headers });
+        const load = await warmedCannon({ url, headers: read.headers });
         budget(
           `${read.label}, ${CONNECTIONS} conn`,
           `${load.rps.toFixed(0)} req/s · p50 ${ms(load.p50)} · p95 ${ms(load.p95)} · p99 ${ms(load.p99)}${load.bad ? ` · ${load.bad} failed` : ''}`,
@@ -312,7 +324,9 @@ export async function benchLoad(row, { databaseUrl = null } = {}) {
         const second = await startServer({ PORT: String(port2), HOST: '127.0.0.1', DATA_DIR: dataDir, NODE_ENV: 'production', SEED_DEMO: 'false', SERVER_PROCESSES: '2', ...(databaseUrl ? { DATABASE_URL: databaseUrl } : {}) }, { quiet: true });
         try {
           const marketPath = `/api/blocks?${new URLSearchParams({ view: 'market' })}`;
-          const halves = await Promise.all([base, `http://127.0.0.1:${port2}`].map((origin) => cannon({ url: `${origin}${marketPath}`, headers: grazier, connections: CONNECTIONS / 2 })));
+          const split = [base, `http://127.0.0.1:${port2}`].map((origin) => ({ url: `${origin}${marketPath}`, headers: grazier, connections: CONNECTIONS / 2 }));
+          await cannonTogether(split.map((run) => ({ ...run, duration: WARM_UP_S })));
+          const halves = await cannonTogether(split);
           const both = percentiles(halves.flatMap((h) => h.times));
           const bad = halves.reduce((sum, h) => sum + h.bad, 0);
           row(
