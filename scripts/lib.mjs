@@ -85,9 +85,11 @@ export async function startServer(env, { quiet = false, timeoutMs = 90_000 } = {
     env: { ...process.env, ...env },
     stdio: quiet ? ['ignore', 'pipe', 'pipe'] : 'inherit',
   });
+  // The tail of what it printed, for the error below (the access log writes a line per API request).
   let output = '';
-  child.stdout?.on('data', (d) => (output += d));
-  child.stderr?.on('data', (d) => (output += d));
+  const keep = (d) => (output = (output + d).slice(-65_536));
+  child.stdout?.on('data', keep);
+  child.stderr?.on('data', keep);
   const url = `http://127.0.0.1:${env.PORT}/api/health`;
   const deadline = Date.now() + timeoutMs;
   while (Date.now() < deadline) {

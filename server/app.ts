@@ -20,6 +20,8 @@ import type { PdfRenderer } from './lib/pdf/pdf-renderer';
 import { pdfkitRenderer } from './lib/pdf/pdfkit-renderer';
 import type { ServiceContext } from './lib/service-context';
 import { AfterAnswer } from './lib/http/after-answer';
+import type { Logger } from 'pino';
+import { accessLog } from './lib/http/access-log';
 
 export interface AppDeps {
   dataSource: DataSource;
@@ -48,6 +50,8 @@ export interface AppDeps {
   trustProxy?: string | number;
   /** Work routes run after answering; pass one to await it (shutdown, tests). */
   afterAnswer?: AfterAnswer;
+  /** Where the access log goes (server/lib/http/access-log.ts); without one, requests are not logged (most tests). */
+  accessLogger?: Logger;
 }
 
 /** The ports the business modules use, from the app's dependencies (tests build one to call services directly). */
@@ -77,6 +81,8 @@ export function createApp(deps: AppDeps): Express {
   app.set('etag', false);
   // The rate limits count per client address: only a proxy we run may say what it is (X-Forwarded-For).
   app.set('trust proxy', deps.trustProxy ?? 'loopback');
+  // First, so every answer is logged, refusals by the limits included.
+  if (deps.accessLogger) app.use(accessLog(deps.accessLogger));
   app.use(
     securityHeaders({
       inlineScriptHashes: deps.webDir ? webAppInlineScriptHashes(deps.webDir) : [],

@@ -14,10 +14,13 @@ import { InvoiceRecovery } from './modules/invoices/invoice-sync';
 import { registerRunning, runningProcesses } from './lib/running-servers';
 import { DatabaseRateLimitStore } from './lib/http/rate-limit-store';
 import { scaledLimits } from './lib/http/rate-limit';
+import { errorLine, serverLogger } from './lib/log';
 
 // config → database (migrations) → demo seed (once) → listen → graceful shutdown.
 async function main() {
   const config = loadConfig();
+  const logger = serverLogger(config.logLevel);
+  const logError = errorLine(logger);
   // DATA_DIR/running/<pid>.json says a server uses this folder (npm run restore refuses while one does); written
   // before the database opens, so a restore that begins now sees it, and a restore already running stops us.
   const unregister = registerRunning(config.dataDir, 'server', { port: config.port });
@@ -27,18 +30,18 @@ async function main() {
   const dataSource = await openDatabase(config.databaseUrl ?? config.databasePath, async (ds) => {
     if (!config.seedDemo) return;
     const seeded = await seedDemoOnce(ds);
-    if (seeded) console.log('[fieldfold] demo data seeded (see README for the demo accounts)');
+    if (seeded) logger.info('[fieldfold] demo data seeded (see README for the demo accounts)');
   });
   // npm start sets SMTP_PORT to the local mail sink; without it mail stays in memory and each message is
   // announced by its subject, JSON-quoted so a subject can never break the log line.
   const mail: MailPort = config.smtp
     ? new SmtpMail({ ...config.smtp, from: config.mailFrom })
-    : new MemoryMail((msg) => console.log(`[mail] ${JSON.stringify(msg.subject)}`), 500);
-  const outbox = new OutboxSender(dataSource, mail, Date.now, console.error);
-  const afterAnswer = new AfterAnswer(console.error);
+    : new MemoryMail((msg) => logger.info(`[mail] ${JSON.stringify(msg.subject)}`), 500);
+  const outbox = new OutboxSender(dataSource, mail, Date.now, logError);
+  const afterAnswer = new AfterAnswer(logError);
   outbox.start();
   const payments = createPayments(config.payments);
-  console.log(`[fieldfold] payments: ${config.payments.mode === 'hosted' ? 'the hosted payments API' : `the local fake at ${config.payments.apiUrl}`}`);
+  logger.info(`[fieldfold] payments: ${config.payments.mode === 'hosted' ? 'the hosted payments API' : `the local fake at ${config.payments.apiUrl}`}`);
   const deps: AppDeps = {
     dataSource,
     tokens: { secret: config.tokenSecret, ttl: config.tokenTtl },
@@ -51,6 +54,8 @@ async function main() {
     publicUrl: config.publicUrl,
     payments,
     afterAnswer,
+    log: logError,
+    accessLogger: logger,
     // Several processes (PostgreSQL, or SERVER_PROCESSES > 1 on one SQLite file) count every limit in the shared
     // database, so a guesser gets no more tries by landing on another process; one process counts in memory.
     rateLimits: {
@@ -66,10 +71,10 @@ async function main() {
     const addr = server.address();
     const port = typeof addr === 'object' && addr ? addr.port : config.port;
     const database = config.databaseUrl ? `PostgreSQL at ${postgresLabel(config.databaseUrl)}` : 'SQLite';
-    console.log(`[fieldfold] listening on http://localhost:${port} (${database}; files in ${config.dataDir})`);
+    logger.info(`[fieldfold] listening on http://localhost:${port} (${database}; files in ${config.dataDir})`);
     if (config.smtp) {
       const inbox = config.mailUiPort ? ` (local inbox: http://localhost:${config.mailUiPort})` : '';
-      console.log(`[fieldfold] mail goes to SMTP ${config.smtp.host}:${config.smtp.port}${inbox}`);
+      logger.info(`[fieldfold] mail goes to SMTP ${config.smtp.host}:${config.smtp.port}${inbox}`);
     }
   });
 
@@ -82,7 +87,7 @@ async function main() {
   const shutdown = (signal: string) => {
     if (closing) return;
     closing = true;
-    console.log(`[fieldfold] ${signal}: closing`);
+    logger.info(`[fieldfold] ${signal}: closing`);
     server.close(async () => {
       await afterAnswer.settled();
       await invoiceRecovery.stop();

@@ -16,7 +16,7 @@ export interface ServerProcess {
   url: string;
   port: number;
   pid: number;
-  /** Everything it printed so far (stdout and stderr). */
+  /** The last 256 kB it printed (stdout and stderr). */
   output(): string;
   /** Sends SIGKILL and resolves once the process is gone. */
   kill(): Promise<void>;
@@ -68,9 +68,11 @@ export async function startServerProcess(opts: { dataDir: string; env?: Record<s
     ...opts.env,
   });
   const child = spawn(process.execPath, ['--import', 'tsx', path.join(ROOT, 'server', 'index.ts')], { cwd: ROOT, env, stdio: ['ignore', 'pipe', 'pipe'] });
+  // The tail of what it printed (the access log writes a line per API request).
   let output = '';
-  child.stdout!.on('data', (d) => (output += d));
-  child.stderr!.on('data', (d) => (output += d));
+  const keep = (d: Buffer) => (output = (output + d).slice(-262_144));
+  child.stdout!.on('data', keep);
+  child.stderr!.on('data', keep);
   const url = `http://127.0.0.1:${port}`;
   const proc: ServerProcess = {
     url,

@@ -52,9 +52,11 @@ async function start(entry: string, env: Record<string, string>, health: string,
     env: { PATH: process.env.PATH ?? '', HOME: process.env.HOME ?? '', ...env },
     stdio: ['ignore', 'pipe', 'pipe'],
   });
+  // The tail of what it printed (the access log writes a line per API request).
   let out = '';
-  child.stdout!.on('data', (d) => (out += d));
-  child.stderr!.on('data', (d) => (out += d));
+  const keep = (d: Buffer) => (out = (out + d).slice(-262_144));
+  child.stdout!.on('data', keep);
+  child.stderr!.on('data', keep);
   const output = () => out;
   const stop = async () => {
     if (child.exitCode !== null || child.signalCode !== null) return;

@@ -35,6 +35,8 @@ export interface TestAppOptions {
   publicUrl?: string;
   /** Request limits; by default every limit is out of reach (see UNREACHED_LIMITS). */
   rateLimits?: AppDeps['rateLimits'];
+  /** A logger for the access log (the access-log tests); by default requests are not logged. */
+  accessLogger?: AppDeps['accessLogger'];
 }
 
 /**
@@ -74,6 +76,7 @@ export async function makeTestApp(options: TestAppOptions = {}) {
     webDir: options.webDir,
     corsOrigin: options.corsOrigin,
     rateLimits: options.rateLimits ?? { limits: UNREACHED_LIMITS },
+    accessLogger: options.accessLogger,
   };
   const app = createApp(deps);
   let n = 0;

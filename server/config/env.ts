@@ -3,6 +3,7 @@ import path from 'node:path';
 import crypto from 'node:crypto';
 import * as yup from 'yup';
 import addressparser from 'nodemailer/lib/addressparser';
+import { LOG_LEVELS, type LogLevel } from '../lib/log';
 
 export const DEFAULT_MAIL_FROM = 'Fieldfold <no-reply@fieldfold.localhost>';
 
@@ -45,6 +46,8 @@ const envSchema = yup.object({
   WEB_DIR: yup.string().default('dist/web'),
   SEED_DEMO: yup.string().oneOf(['true', 'false'], 'SEED_DEMO must be true or false').default('true'),
   NODE_ENV: yup.string().default('development'),
+  // The server's log (server/lib/log.ts): info has a line per API request; warn keeps only refusals and failures.
+  LOG_LEVEL: yup.string().oneOf([...LOG_LEVELS], `LOG_LEVEL must be one of ${LOG_LEVELS.join(', ')}`).default('info'),
   CORS_ORIGIN: yup.string().url('CORS_ORIGIN must be an origin like http://localhost:8081'),
   // Which proxies' X-Forwarded-For to believe for the client address the rate limits count by: a number of hops,
   // or addresses/subnets/names Express knows (loopback, uniquelocal). Never "true": anyone could then pick an address.
@@ -109,6 +112,8 @@ export interface Config {
   webDir: string;
   seedDemo: boolean;
   production: boolean;
+  /** LOG_LEVEL: how much the server logs (server/lib/log.ts). */
+  logLevel: LogLevel;
   /** Only the Expo dev server needs it (npm run dev); production serves app and API from one origin. */
   corsOrigin: string | null;
   /** Express's `trust proxy`: a hop count or the proxies' addresses (default loopback). */
@@ -186,6 +191,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, root = process.
     webDir: path.resolve(root, parsed.WEB_DIR),
     seedDemo: parsed.SEED_DEMO === 'true',
     production: parsed.NODE_ENV === 'production',
+    logLevel: parsed.LOG_LEVEL as LogLevel,
     corsOrigin: parsed.CORS_ORIGIN ?? null,
     trustProxy: /^\d+$/.test(parsed.TRUST_PROXY) ? Number(parsed.TRUST_PROXY) : parsed.TRUST_PROXY,
     rateLimitMultiplier: parsed.RATE_LIMIT_MULTIPLIER,
