@@ -1,5 +1,6 @@
 import { Brackets, type DataSource, type SelectQueryBuilder } from 'typeorm';
 import { PreparedSelect } from '../../lib/db/prepared-select';
+import { ShapedSql } from '../../lib/db/shaped-sql';
 import { Block } from './block.entity';
 import { distanceMilesSql } from '../../db/sql-functions';
 import { boundingBox, distanceMiles, type LatLng, type LatLngBox } from '../../../lib/geo';
@@ -56,6 +57,10 @@ const zonesEndingSoon = new PreparedSelect((em) =>
   em.createQueryBuilder(Block, 'b').select('DISTINCT b.time_zone', 'tz').where("b.status = 'open'").andWhere('b.graze_until >= :utc AND b.graze_until <= :next'),
 );
 const blocksById = new PreparedSelect((em) => em.createQueryBuilder(Block, 'b').where('b.id IN (:...ids)'));
+/** The filtered statements, rendered once per shape of filter (server/lib/db/shaped-sql.ts). */
+const shaped = new ShapedSql();
+const COUNT_UP_TO = { name: 'count-up-to', sql: (inner: string) => `SELECT COUNT(*) AS n FROM (${inner}) capped` };
+
 const namesById = new PreparedSelect((em) => em.createQueryBuilder(Block, 'b').select('b.id', 'id').addSelect('b.name', 'name').where('b.id IN (:...ids)'));
 
 /**
@@ -232,11 +237,11 @@ function figureSort(ds: DataSource, sort: Exclude<BlockSort, 'distance'>, viewer
 const byName = (a: { name: string; id: string }, b: { name: string; id: string }) => a.name.localeCompare(b.name) || a.id.localeCompare(b.id);
 
 /** The page's ids for a sort on one indexed figure. */
-async function pageByFigure(base: Qb, sort: FigureSort, offset: number, limit: number): Promise<string[]> {
+async function pageByFigure(ds: DataSource, base: Qb, sort: FigureSort, offset: number, limit: number): Promise<string[]> {
   const keyed = (qb: Qb) => qb.select('b.id', 'id').addSelect('b.name', 'name').addSelect(sort.select, 'k');
   // One row either side of the page tells whether equal figures straddle its edges.
   const start = Math.max(0, offset - 1);
-  const raw: KeyRow[] = await keyed(base.clone()).orderBy(sort.orderBy, sort.dir).offset(start).limit(limit + 1 + (offset - start)).getRawMany();
+  const raw = await shaped.raw<KeyRow>(ds, keyed(base.clone()).orderBy(sort.orderBy, sort.dir), { limit: limit + 1 + (offset - start), offset: start });
   const rows = raw.map((r) => ({ ...r, k: sort.rank(r.k) }));
   const before = offset > 0 ? rows[0] : undefined;
   const page = rows.slice(offset - start, offset - start + limit);
@@ -252,12 +257,12 @@ async function pageByFigure(base: Qb, sort: FigureSort, offset: number, limit: n
   // Every row whose figure lies from the first to the last on the page, and how many rows come ahead of them.
   const span = keyed(base.clone());
   sort.between(span, first, last);
-  const around = ((await span.getRawMany()) as KeyRow[]).map((r) => ({ ...r, k: sort.rank(r.k) })).sort(exact);
+  const around = (await shaped.raw<KeyRow>(ds, span)).map((r) => ({ ...r, k: sort.rank(r.k) })).sort(exact);
   let ahead = offset;
   if (tiedBefore) {
     const count = base.clone().select('COUNT(*)', 'n');
     sort.ahead(count, first);
-    ahead = Number((await count.getRawOne<{ n: number }>())!.n);
+    ahead = Number((await shaped.raw<{ n: number | string }>(ds, count))[0].n);
   }
   return around.slice(offset - ahead, offset - ahead + limit).map((r) => r.id);
 }
@@ -280,7 +285,7 @@ async function pageByDistance(ds: DataSource, base: Qb, home: LatLng, maxMiles: 
     const disk = Number.isFinite(miles) && miles !== maxMiles;
     const box = disk ? boundingBox(home, miles) : null;
     if (box) whereInBox(qb, box, 'disk');
-    const found: Array<{ id: string; latitude: number; longitude: number }> = await qb.getRawMany();
+    const found = await shaped.raw<{ id: string; latitude: number; longitude: number }>(ds, qb);
     rows = found.map((r) => ({ id: r.id, d: distanceMiles(home, r) }));
     if (disk) rows = rows.filter((r) => r.d <= miles);
     if (rows.length >= needed || !Number.isFinite(miles) || miles >= widest) break;
@@ -310,8 +315,7 @@ async function pageByDistance(ds: DataSource, base: Qb, home: LatLng, maxMiles: 
 
 /** How many rows `base` selects, counting no further than `limit`. */
 async function countUpTo(ds: DataSource, base: Qb, limit: number): Promise<number> {
-  const [sql, params] = base.clone().select('1', 'one').limit(limit).getQueryAndParameters();
-  const [row] = await ds.query(`SELECT COUNT(*) AS n FROM (${sql}) capped`, params);
+  const [row] = await shaped.raw<{ n: number | string }>(ds, base.clone().select('1', 'one'), { limit, wrap: COUNT_UP_TO });
   return Number(row.n);
 }
 
@@ -336,7 +340,7 @@ export async function findBlockPage(
   const ids =
     q.sort === 'distance'
       ? await pageByDistance(ds, base, viewer.home!, q.maxMiles, totalCapped ? Number.POSITIVE_INFINITY : total, offset, q.pageSize)
-      : await pageByFigure(base, figureSort(ds, q.sort, viewer), offset, q.pageSize);
+      : await pageByFigure(ds, base, figureSort(ds, q.sort, viewer), offset, q.pageSize);
   const found = ids.length ? await blocksById.many(ds.manager, { ids }) : [];
   const byId = new Map(found.map((b) => [b.id, b]));
   return { blocks: ids.map((id) => byId.get(id)!).filter(Boolean), total, totalCapped };
