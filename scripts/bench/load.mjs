@@ -93,7 +93,7 @@ async function capturedStatements(ds, call) {
  * (query building, the driver, hydration into entities). Wraps the entry points the services use.
  */
 function ormClock() {
-  const { EntityManager, SelectQueryBuilder } = require(require.resolve('typeorm', { paths: [root] }));
+  const { DataSource, EntityManager, SelectQueryBuilder } = require(require.resolve('typeorm', { paths: [root] }));
   let depth = 0;
   let since = 0;
   let spent = 0;
@@ -112,6 +112,8 @@ function ormClock() {
   };
   for (const name of ['getMany', 'getOne', 'getRawMany', 'getRawOne', 'getCount', 'getExists']) wrap(SelectQueryBuilder.prototype, name);
   for (const name of ['find', 'findBy', 'findOne', 'findOneBy', 'count', 'countBy', 'exists', 'existsBy', 'query']) wrap(EntityManager.prototype, name);
+  // The lists' shaped statements (server/lib/db/shaped-sql.ts) and the capped count go straight to DataSource#query.
+  wrap(DataSource.prototype, 'query');
   return {
     take: () => {
       const t = spent;

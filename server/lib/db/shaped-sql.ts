@@ -33,10 +33,17 @@ export class ShapedSql {
     let known = this.shapes.get(ds);
     if (!known) this.shapes.set(ds, (known = new Map()));
     const e = qb.expressionMap;
-    const key = JSON.stringify([e.mainAlias?.name, e.selects, e.selectDistinct, e.wheres, e.orderBys, e.groupBys, e.havings, e.joinAttributes.length, run.limit !== undefined, run.offset !== undefined, run.wrap?.name]);
+    // Checked on every call, not only when a shape is first rendered: a builder the key does not describe must
+    // never be answered with another's SQL.
+    if (e.limit !== undefined || e.offset !== undefined || e.take !== undefined || e.skip !== undefined) throw new Error('ShapedSql binds LIMIT and OFFSET itself: pass them in the run, not on the builder');
+    if (run.offset !== undefined && run.limit === undefined) throw new Error('ShapedSql: an OFFSET needs a LIMIT');
+    const main = e.mainAlias;
+    if (!main?.hasMetadata || main.subQuery || e.joinAttributes.length > 0 || e.selectDistinctOn.length > 0 || e.lockMode !== undefined || e.commonTableExpressions.length > 0) {
+      throw new Error('ShapedSql takes builders on one entity, without joins, subqueries, DISTINCT ON, locks or CTEs');
+    }
+    const key = JSON.stringify([main.metadata.tableName, main.name, e.selects, e.selectDistinct, e.withDeleted, e.wheres, e.orderBys, e.groupBys, e.havings, e.comment, run.limit !== undefined, run.offset !== undefined, run.wrap?.name]);
     let sql = known.get(key);
     if (sql === undefined) {
-      if (e.limit !== undefined || e.offset !== undefined || e.take !== undefined || e.skip !== undefined) throw new Error('ShapedSql binds LIMIT and OFFSET itself: pass them in the run, not on the builder');
       sql = qb.getQuery();
       if (run.limit !== undefined) sql += ` LIMIT :${LIMIT}`;
       if (run.offset !== undefined) sql += ` OFFSET :${OFFSET}`;

@@ -9,11 +9,12 @@ import { pinoHttp } from 'pino-http';
 // bearer token), no bodies, no client address. 2xx/3xx at info, 4xx at warn, 5xx at error. The web app's files
 // are logged only when they fail (a page load fetches dozens), and health checks not at all.
 
-/** What the log keeps of a request's URL: the path, and the query's parameter names in order, without values. */
+/** What the log keeps of a request's URL: the path, and the query's parameter names in order (names that look like names), without values. */
 export function loggedUrl(url: string): { path: string; query?: string[] } {
   const at = url.indexOf('?');
   if (at < 0) return { path: url };
-  const names = [...new URLSearchParams(url.slice(at + 1)).keys()];
+  // Only names that look like names: a mis-encoded link (?access%3D<token>) would make the token part of one.
+  const names = [...new URLSearchParams(url.slice(at + 1)).keys()].filter((name) => /^[\w.-]{1,32}$/.test(name));
   return names.length ? { path: url.slice(0, at), query: [...new Set(names)] } : { path: url.slice(0, at) };
 }
 
