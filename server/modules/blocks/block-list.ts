@@ -43,10 +43,12 @@ export interface BlockPage {
 
 /**
  * The list counts its blocks exactly up to this many, or to the end of the page asked for if that is further;
- * past it the answer is "more than". Counting every one of 10 000 open blocks cost more than finding and
- * building the page (2–3 ms of a market request on the bench machine); nobody pages through a thousand.
+ * past it the answer is "more than" ("More than 200 open blocks": ten pages, past which a grazier narrows the
+ * filters rather than pages on). Counting every one of 10 000 open blocks cost more than finding and building the
+ * page (2–3 ms of a market request on the bench machine), and with filters the count walks the rows that match
+ * until it has enough: up to 1 000 it was a quarter of the filtered market's time in-process (2.1 → 1.55 ms at 200).
  */
-export const EXACT_COUNT_UP_TO = 1000;
+export const EXACT_COUNT_UP_TO = 200;
 
 type Qb = SelectQueryBuilder<Block>;
 
