@@ -5,9 +5,8 @@ import { bothDays, day, int, num, paragraphs, rejectUnknown } from './fields';
 import { pageFields } from './paging';
 import { FLOCK_SPECIES, type FlockSpecies } from '../grazing/flock-intake';
 import type { NormalisedBid } from '../grazing/bid-compare';
-import type { Caution } from '../grazing/safety';
 import type { StayConflict } from '../grazing/graze-window';
-import type { BlockSummary, PartyView } from './block';
+import type { BlockSummary, CautionFlagView, PartyView } from './block';
 
 // A grazier's bid on an open block. The schema checks the bid on its own (types, ranges, end after start);
 // the server then checks it against the block — inside the window, not before the earliest safe date,
@@ -105,8 +104,11 @@ export interface BidView extends BidTermsView {
    * block, e.g. a new spray record). Such a bid cannot be awarded until the grazier changes it.
    */
   conflicts: BidConflict[];
-  /** The cautions for this bid's species on this block. */
-  cautions: Caution[];
+  /**
+   * The cautions for this bid's species on this block, as flags (key, tone, title): the same for every bid of that
+   * species, so their full text comes once, with the block (`GET /api/blocks/:id`), not with each of forty bids.
+   */
+  cautions: CautionFlagView[];
   block: BlockSummary;
   createdAt: string;
   updatedAt: string;

@@ -4,12 +4,13 @@ import { readTogether } from '../../lib/db/reads';
 import { Account } from '../accounts/account.entity';
 import { Block } from '../blocks/block.entity';
 import { Contract } from '../contracts/contract.entity';
-import { blockSummary } from '../blocks/block-views';
+import { blockSummary, cautionFlags } from '../blocks/block-views';
 import type { Bid } from './bid.entity';
 import { normaliseBid } from '../../../lib/grazing/bid-compare';
 import { stayConflicts } from '../../../lib/grazing/graze-window';
 import { cautionsForBlock } from '../../../lib/grazing/safety';
 import type { BidInput, BidView } from '../../../lib/schemas/bid';
+import type { CautionFlagView } from '../../../lib/schemas/block';
 import { pickTerms } from '../../../lib/terms';
 
 const completedPerGrazier = new PreparedSelect((em) =>
@@ -52,10 +53,10 @@ export async function bidViews(em: EntityManager, bids: Bid[], knownBlocks: Bloc
   const blockById = new Map([...knownBlocks, ...blocks].map((b) => [b.id, b]));
   const grazierById = new Map(graziers.map((g) => [g.id, g]));
   // A block's bids share its cautions species by species: work them out once per block and species.
-  const cautions = new Map<string, ReturnType<typeof cautionsForBlock>>();
+  const cautions = new Map<string, CautionFlagView[]>();
   const cautionsFor = (block: Block, species: Bid['species']) => {
     const key = `${block.id}/${species}`;
-    if (!cautions.has(key)) cautions.set(key, cautionsForBlock(block, { species }));
+    if (!cautions.has(key)) cautions.set(key, cautionFlags(cautionsForBlock(block, { species })));
     return cautions.get(key)!;
   };
   return bids.map((bid) => {

@@ -14,7 +14,7 @@ import { intakeForFlock, type FlockSpecies } from '../../../lib/grazing/flock-in
 import { grazeSpan, type GrazeSpan } from '../../../lib/grazing/graze-window';
 import { cautionsForBlock } from '../../../lib/grazing/safety';
 import { distanceMiles } from '../../../lib/geo';
-import type { BlockCardView, BlockInput, BlockSummary, BlockView, FlockFit, PartyView } from '../../../lib/schemas/block';
+import type { BlockCardView, BlockInput, BlockSummary, BlockView, CautionFlagView, FlockFit, PartyView } from '../../../lib/schemas/block';
 
 // Turns stored blocks into what the API returns, with the figures that depend on who is looking: distance
 // from their home base, days of feed for their flock, the cautions for their species. Every figure comes
@@ -75,10 +75,15 @@ export function viewerFigures(viewer: Account, block: Block): ViewerFigures {
   };
 }
 
+/** Cautions as a list shows them: key, tone and title; the full text is on the block's page. */
+export function cautionFlags(cautions: ReadonlyArray<CautionFlagView>): CautionFlagView[] {
+  return cautions.map(({ key, tone, title }) => ({ key, tone, title }));
+}
+
 /** A block's view as a list shows it: the same figures, the cautions as flags, the page-only fields left out. */
 export function blockCard(view: BlockView): BlockCardView {
   const { cautions, sprayRecords: _sprays, notes: _notes, forageSamples: _samples, forageHeight: _heights, ...card } = view;
-  return { ...card, cautions: cautions.map(({ key, tone, title }) => ({ key, tone, title })) };
+  return { ...card, cautions: cautionFlags(cautions) };
 }
 
 /** The block as the grower entered it: the base a PATCH is merged into. */
