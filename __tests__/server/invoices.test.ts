@@ -418,6 +418,9 @@ describe('GET /api/invoices and the PDF', () => {
     const payable = await t.api().get('/api/invoices?side=payable').set(greta.auth);
     expect(payable.body.items.map((i: { id: string }) => i.id).sort()).toEqual([a.invoice.id, b.invoice.id].sort());
     expect(payable.body.items.every((i: { viewerSide: string }) => i.viewerSide === 'payable')).toBe(true);
+    // The list offers no PDF link (each is a token signed per invoice and viewer); the invoice's own page has it.
+    expect(payable.body.items.every((i: { pdf: Record<string, unknown> }) => !('url' in i.pdf) && 'version' in i.pdf)).toBe(true);
+    expect((await t.api().get(`/api/invoices/${a.invoice.id}`).set(greta.auth)).body.invoice.pdf.url).toMatch(/^\/api\/invoices\/.+\/pdf\?access=/);
 
     // Due Dec 15 at the block (America/Los_Angeles): still on time that day, overdue the day after.
     t.setNow('2026-12-15T23:30:00-08:00');

@@ -1,6 +1,6 @@
 import { Link } from 'expo-router';
 import { Pressable, StyleSheet, View } from 'react-native';
-import type { InvoiceView } from '@/lib/schemas/invoice';
+import type { InvoiceListItem } from '@/lib/schemas/invoice';
 import { formatCents } from '@/lib/money';
 import { formatDay } from '@/lib/format';
 import { Text } from '@/components/ui';
@@ -9,7 +9,7 @@ import { InvoiceStatusBadge } from './invoice-status';
 import { counterparty } from './invoice-sorting';
 
 /** One invoice on a phone: number and amount, who, the block, and when it is (or was) due. */
-export function InvoiceCard({ invoice: inv }: { invoice: InvoiceView }) {
+export function InvoiceCard({ invoice: inv }: { invoice: InvoiceListItem }) {
   return (
     <Link href={`/invoices/${inv.id}`} asChild>
       <Pressable

@@ -1,23 +1,23 @@
-import type { InvoiceDisplayStatus, InvoiceView } from '@/lib/schemas/invoice';
+import type { InvoiceDisplayStatus, InvoiceListItem } from '@/lib/schemas/invoice';
 
 // Columns the money views sort by. Status sorts by what needs doing first: overdue, then awaiting payment, being
 // issued, paid, void.
 const STATUS_ORDER: Record<InvoiceDisplayStatus, number> = { overdue: 0, sent: 1, draft: 2, paid: 3, void: 4 };
 
 export const INVOICE_SORT_KEYS = {
-  due: { label: 'Due', value: (i: InvoiceView) => i.dueDate },
-  amount: { label: 'Amount', value: (i: InvoiceView) => i.totalCents },
-  status: { label: 'Status', value: (i: InvoiceView) => STATUS_ORDER[i.displayStatus] },
-  issued: { label: 'Issued', value: (i: InvoiceView) => i.issueDate },
-  number: { label: 'Number', value: (i: InvoiceView) => i.numberLabel },
-  party: { label: 'Who', value: (i: InvoiceView) => (i.viewerSide === 'receivable' ? (i.grower.businessName ?? i.grower.name) : (i.grazier.businessName ?? i.grazier.name)).toLowerCase() },
+  due: { label: 'Due', value: (i: InvoiceListItem) => i.dueDate },
+  amount: { label: 'Amount', value: (i: InvoiceListItem) => i.totalCents },
+  status: { label: 'Status', value: (i: InvoiceListItem) => STATUS_ORDER[i.displayStatus] },
+  issued: { label: 'Issued', value: (i: InvoiceListItem) => i.issueDate },
+  number: { label: 'Number', value: (i: InvoiceListItem) => i.numberLabel },
+  party: { label: 'Who', value: (i: InvoiceListItem) => (i.viewerSide === 'receivable' ? (i.grower.businessName ?? i.grower.name) : (i.grazier.businessName ?? i.grazier.name)).toLowerCase() },
 } as const;
 
 export type InvoiceSortKey = keyof typeof INVOICE_SORT_KEYS;
 export type SortDir = 'asc' | 'desc';
 
 /** Sorted by the chosen column; ties keep the server's order (due date, then number). */
-export function sortInvoices(items: readonly InvoiceView[], key: InvoiceSortKey, dir: SortDir): InvoiceView[] {
+export function sortInvoices(items: readonly InvoiceListItem[], key: InvoiceSortKey, dir: SortDir): InvoiceListItem[] {
   const read = INVOICE_SORT_KEYS[key].value;
   const sign = dir === 'asc' ? 1 : -1;
   return items
@@ -33,7 +33,7 @@ export function sortInvoices(items: readonly InvoiceView[], key: InvoiceSortKey,
 }
 
 /** The other party's name, from the viewer's side. */
-export function counterparty(inv: InvoiceView): string {
+export function counterparty(inv: InvoiceListItem): string {
   const p = inv.viewerSide === 'receivable' ? inv.grower : inv.grazier;
   return p.businessName ?? p.name;
 }

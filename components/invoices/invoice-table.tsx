@@ -1,6 +1,6 @@
 import { Link } from 'expo-router';
 import { Pressable, StyleSheet, View } from 'react-native';
-import type { InvoiceView } from '@/lib/schemas/invoice';
+import type { InvoiceListItem } from '@/lib/schemas/invoice';
 import { formatCents } from '@/lib/money';
 import { formatDay } from '@/lib/format';
 import { Text } from '@/components/ui';
@@ -28,7 +28,7 @@ function Header({ k, sort, onSort, flex, align, label }: { k: InvoiceSortKey; so
 
 /** From 1024 px: every invoice on one row, sortable by each column, with the total under the amounts. */
 /** `of`: how many invoices the side holds in all (the table shows the pages fetched so far). */
-export function InvoiceTable({ items, sort, onSort, totalCents, of }: { items: InvoiceView[]; sort: Sort; onSort: (k: InvoiceSortKey) => void; totalCents: number; of: number }) {
+export function InvoiceTable({ items, sort, onSort, totalCents, of }: { items: InvoiceListItem[]; sort: Sort; onSort: (k: InvoiceSortKey) => void; totalCents: number; of: number }) {
   const side = items[0]?.viewerSide ?? 'receivable';
   return (
     <View style={styles.table} role="table" aria-label="Invoices">

@@ -1,5 +1,5 @@
 import { infiniteQueryOptions, queryOptions, useInfiniteQuery, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import { DEFAULT_INVOICE_PAGE, type CreateInvoiceInput, type InvoiceListView, type InvoiceSide, type InvoiceTotals, type InvoiceView } from '@/lib/schemas/invoice';
+import { DEFAULT_INVOICE_PAGE, type CreateInvoiceInput, type InvoiceListView, type InvoiceSide, type InvoiceListItem, type InvoiceTotals, type InvoiceView } from '@/lib/schemas/invoice';
 import type { TestPaymentMethodId } from '@/lib/payments';
 import { api, queryString } from './client';
 import { staleTimes } from './query-client';
@@ -17,7 +17,7 @@ const enc = encodeURIComponent;
 /** While the server is still issuing an invoice, or a payment is going through, look again every few seconds. */
 export const INVOICE_BUSY_POLL_MS = 3_000;
 
-function isBusy(inv: InvoiceView | undefined): boolean {
+function isBusy(inv: InvoiceListItem | undefined): boolean {
   return !!inv && (inv.status === 'draft' || inv.payment.inProgress);
 }
 
@@ -33,7 +33,7 @@ export const invoicesQueryOptions = (side: InvoiceSide) =>
 
 /** The invoices fetched so far, with the totals and count over the whole side (the newest page's). */
 export interface InvoiceListPages {
-  items: InvoiceView[];
+  items: InvoiceListItem[];
   totals: InvoiceTotals;
   total: number;
 }

@@ -165,10 +165,13 @@ export interface InvoiceTotals {
   season: string;
 }
 
+/** An invoice as the list shows it: its view without the PDF link (the invoice's own page has it). */
+export type InvoiceListItem = Omit<InvoiceView, 'pdf'> & { pdf: Omit<InvoiceView['pdf'], 'url'> };
+
 export interface InvoiceListView {
   side: InvoiceSide;
   /** One page, due first. */
-  items: InvoiceView[];
+  items: InvoiceListItem[];
   /** Over the whole side, every page. */
   totals: InvoiceTotals;
   /** Invoices on this side, every page. */

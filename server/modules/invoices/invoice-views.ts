@@ -12,7 +12,7 @@ import type { LinkViewer } from '../../lib/http/auth';
 import { displayStatus, invoiceNumberLabel } from '../../../lib/invoices';
 import { todayIn } from '../../../lib/day-keys';
 import { TEST_PAYMENT_METHODS } from '../../../lib/payments';
-import type { InvoiceView } from '../../../lib/schemas/invoice';
+import type { InvoiceListItem, InvoiceView } from '../../../lib/schemas/invoice';
 
 // Stored invoices as the API returns them, for one viewer (their side, their PDF link). "Overdue" is worked out
 // on the block's calendar: the due day is still on time there.
@@ -47,7 +47,20 @@ const viewPdfs = new PreparedSelect((em) =>
     .orderBy('d.version', 'DESC'),
 );
 
+/** Invoices as their own page shows them, with a signed link to the PDF. */
 export async function invoiceViews(em: EntityManager, ctx: ViewContext, viewer: LinkViewer, invoices: Invoice[]): Promise<InvoiceView[]> {
+  return (await views(em, ctx, viewer, invoices, true)) as InvoiceView[];
+}
+
+/**
+ * Invoices as the list shows them: the same, without the PDF link (the list offers none; each link is a token
+ * signed for that invoice and viewer, 25 signatures a page for links nobody follows from there).
+ */
+export async function invoiceListItems(em: EntityManager, ctx: ViewContext, viewer: LinkViewer, invoices: Invoice[]): Promise<InvoiceListItem[]> {
+  return views(em, ctx, viewer, invoices, false);
+}
+
+async function views(em: EntityManager, ctx: ViewContext, viewer: LinkViewer, invoices: Invoice[], pdfLinks: boolean): Promise<Array<InvoiceListItem & { pdf: { url?: string } }>> {
   if (invoices.length === 0) return [];
   const contracts = await viewContracts.many(em, { ids: [...new Set(invoices.map((i) => i.contractId))] });
   const contractById = new Map(contracts.map((c) => [c.id, c]));
@@ -116,7 +129,7 @@ export async function invoiceViews(em: EntityManager, ctx: ViewContext, viewer: 
             }
           : null,
       pdf: {
-        url: invoicePdfUrl(inv.id, signInvoicePdfAccess(ctx.tokenSecret, inv.id, viewer)),
+        ...(pdfLinks ? { url: invoicePdfUrl(inv.id, signInvoicePdfAccess(ctx.tokenSecret, inv.id, viewer)) } : {}),
         sha256: pdfOf.get(inv.id)?.sha256 ?? null,
         version: pdfOf.get(inv.id)?.version ?? null,
       },

@@ -14,7 +14,7 @@ import { Contract } from '../contracts/contract.entity';
 import { Invoice, InvoiceCounter } from './invoice.entity';
 import type { ServiceContext } from '../../lib/service-context';
 import { assertInvoiceParty, assertIssuer, assertMayInvoice, assertPayer } from './invoices.policy';
-import { invoiceViews } from './invoice-views';
+import { invoiceListItems, invoiceViews } from './invoice-views';
 import { ensureInvoicePdf, markPaid, refreshInvoicePdf, syncInvoice } from './invoice-sync';
 import type { Document } from '../documents/documents.service';
 import { addDays, todayIn } from '../../../lib/day-keys';
@@ -241,7 +241,7 @@ export async function listInvoices(ctx: ServiceContext, viewer: Account, query: 
   } else rows = await invoiceLists.first[side].many(em, take);
   const page = rows.slice(0, limit);
   const last = page.at(-1);
-  const [items, groups] = await Promise.all([invoiceViews(em, ctx, viewer, page), invoiceLists.totals[side].raw<TotalsRow>(em, { me: viewer.id })]);
+  const [items, groups] = await Promise.all([invoiceListItems(em, ctx, viewer, page), invoiceLists.totals[side].raw<TotalsRow>(em, { me: viewer.id })]);
   const now = ctx.now();
   const todays = new Map<string, string>();
   const todayAt = (zone: string) => todays.get(zone) ?? todays.set(zone, todayIn(zone, now)).get(zone)!;
@@ -252,7 +252,7 @@ export async function listInvoices(ctx: ServiceContext, viewer: Account, query: 
   });
   // "This season" on the calendar of the first invoice in list order (the first page's first item).
   const first = q.cursor ? (await invoiceLists.first[side].many(em, { me: viewer.id, limit: 1 }))[0] : undefined;
-  const zone = (first ? (await invoiceViews(em, ctx, viewer, [first]))[0] : items[0])?.block.timeZone ?? 'UTC';
+  const zone = (first ? (await invoiceListItems(em, ctx, viewer, [first]))[0] : items[0])?.block.timeZone ?? 'UTC';
   return {
     side,
     items,
