@@ -2,58 +2,11 @@ import { fireEvent, screen, waitFor } from '@testing-library/react-native';
 import { BidForm } from '@/components/bids/bid-form';
 import { normaliseBid } from '@/lib/grazing/bid-compare';
 import { formatCents } from '@/lib/money';
-import type { BidView } from '@/lib/schemas/bid';
-import type { BlockView } from '@/lib/schemas/block';
 import { renderWithProviders } from '../helpers/render-app';
+import { bidView, block } from '../helpers/bid-fixtures';
 
 // The clock the form reads "today at the block" from: 1 Dec 2026, before the block's window.
 const NOW = Date.parse('2026-12-01T18:00:00Z');
-
-/** Copper-sprayed vineyard rows, open Jan 18 – Mar 10 2027 (animals out by Mar 10), 40 % target take. */
-const block: BlockView = {
-  id: 'blk-1',
-  status: 'open',
-  owner: { id: 'grower-1', name: 'Tomás Reyes', businessName: 'Three Terraces Vineyard' },
-  name: 'Terrace 2 vineyard rows',
-  crop: 'vineyard',
-  acres: 36,
-  placeName: 'Calder Valley, west slope',
-  latitude: 39.6512,
-  longitude: -122.0488,
-  timeZone: 'America/Los_Angeles',
-  forageMethod: 'direct',
-  lbDmPerAcre: 1800,
-  forageSamples: null,
-  forageHeight: null,
-  targetUtilizationPct: 40,
-  residualHeightIn: 3,
-  windowStart: '2027-01-18',
-  windowEnd: '2027-03-20',
-  outBy: '2027-03-10',
-  harvestDate: '2027-09-01',
-  sprayRecords: [{ product: 'Fixed copper fungicide', appliedOn: '2026-12-15', grazingRestrictionDays: 21, containsCopper: true }],
-  waterOnSite: true,
-  perimeterFence: 'full',
-  truckAccess: true,
-  speciesAllowed: ['sheep'],
-  youngPlantings: false,
-  notes: null,
-  earliestSafeDate: '2027-01-05',
-  grazeFrom: '2027-01-18',
-  grazeUntil: '2027-03-10',
-  distanceMiles: 13.8,
-  capacity: 6912,
-  daysForMyFlock: 11.52,
-  flockFit: { headCount: 600, bodyWeightLb: 150, intakePctBodyWeight: 2.5, intakeBasis: 'dry ewe', intakeSource: 'NCAT ATTRA' },
-  cautions: [{ key: 'copper-sheep', tone: 'danger', title: 'Copper sprays: a risk for sheep', text: 'Ask your vet before grazing sheep here.' }],
-  photos: [],
-  liveBidCount: null,
-  viewer: { isOwner: false, canBid: true, myLiveBidId: null },
-  publishedAt: '2026-11-20T00:00:00.000Z',
-  awardedAt: null,
-  createdAt: '2026-11-20T00:00:00.000Z',
-  updatedAt: '2026-11-20T00:00:00.000Z',
-};
 
 const wade = { flock: { species: 'sheep' as const, animalClass: 'dry ewes' as const, headCount: 600, bodyWeightLb: 150 } };
 
@@ -74,27 +27,6 @@ const textOf = (id: string) => {
   return Array.isArray(children) ? children.join('') : String(children);
 };
 const input = (label: string) => screen.getByLabelText(label);
-
-function bidView(over: Partial<BidView> = {}): BidView {
-  const terms = { basis: 'head-day' as const, rate: '0.20', headCount: 600, species: 'sheep' as const, animalClass: 'dry ewes' as const, bodyWeightLb: 150, startDate: '2027-01-20', endDate: '2027-01-30' };
-  return {
-    id: 'bid-1',
-    blockId: block.id,
-    status: 'live',
-    grazier: { id: 'wade', name: 'Wade Kellner', businessName: 'Kellner Range Sheep', completedContracts: 0 },
-    ...terms,
-    services: ['guardian dogs'],
-    note: null,
-    normalised: normaliseBid(terms, block),
-    conflicts: [],
-    cautions: [],
-    block: { id: block.id, name: block.name, status: 'open', crop: block.crop, acres: block.acres, placeName: block.placeName, timeZone: block.timeZone },
-    createdAt: '2026-12-01T18:00:00.000Z',
-    updatedAt: '2026-12-01T18:00:00.000Z',
-    decidedAt: null,
-    ...over,
-  };
-}
 
 describe('BidForm', () => {
   it('starts from my flock and a stay that fits, previews the bid with lib/ figures, warns of overgrazing and sends the bid', async () => {

@@ -11,6 +11,8 @@ import { useAwardBid, useBlockBids } from '@/hooks/api/bids';
 import { ApiError } from '@/hooks/api/client';
 import { BID_SORT_KEYS, sortBids, type BidSortKey } from './bid-sorting';
 import { BASIS_UNIT } from '@/lib/terms';
+import { SPECIES_CAUTION_KEYS } from '@/lib/grazing/safety';
+import { CautionFlag } from '@/components/market/caution-flag';
 
 
 /** Declined and withdrawn bids stay listed for the record, dimmed; the accepted one stays bright. */
@@ -25,6 +27,19 @@ function Utilisation({ bid }: { bid: BidView }) {
     <Text variant="caption" tone={n.overgrazes ? 'danger' : 'ok'}>
       {pct} of standing vs {formatNumber(n.targetUtilizationPct)} % target{n.overgrazes ? ' — overgrazes' : ''}
     </Text>
+  );
+}
+
+/** The cautions this bid's species brings to the block (copper for sheep…): the block-wide ones are beside the table. */
+function SpeciesCautions({ bid, lines }: { bid: BidView; lines?: number }) {
+  const own = bid.cautions.filter((c) => c.tone !== 'info' && SPECIES_CAUTION_KEYS.includes(c.key));
+  if (!own.length) return null;
+  return (
+    <View style={styles.flags} testID={`bid-cautions-${bid.id}`}>
+      {own.map((c) => (
+        <CautionFlag key={c.key} caution={c} lines={lines} />
+      ))}
+    </View>
   );
 }
 
@@ -113,6 +128,7 @@ function BidTable({ bids, block, sort, onSort, onAwarded }: { bids: BidView[]; b
               <Text variant="caption" tone="muted">
                 {formatNumber(b.normalised.headDays)} head-days · {formatDayRange(b.startDate, b.endDate)}
               </Text>
+              <SpeciesCautions bid={b} lines={4} />
             </View>
             <View style={[styles.td, { flex: 1.1 }]}>
               <Text variant="bodyStrong">{formatCents(b.normalised.estimatedTotalCents)}</Text>
@@ -154,6 +170,7 @@ function BidCard({ bid: b, block, onAwarded }: { bid: BidView; block: BlockView;
         {formatDayRange(b.startDate, b.endDate)} · {formatCents(b.normalised.costPerAcreCents)}/acre · ${b.normalised.costPerHeadDayRate}/head-day
       </Text>
       <Utilisation bid={b} />
+      <SpeciesCautions bid={b} />
       {b.note ? <Text variant="caption">“{b.note}”</Text> : null}
       <AwardButton bid={b} block={block} onAwarded={onAwarded} />
     </Card>
@@ -210,6 +227,7 @@ export function BidComparison({ block }: { block: BlockView }) {
 }
 
 const styles = StyleSheet.create({
+  flags: { gap: space.xs, marginTop: space.xs },
   table: { width: '100%', borderWidth: 1, borderColor: colors.line, borderRadius: radius.lg, backgroundColor: colors.surface, overflow: 'hidden' },
   tr: { flexDirection: 'row', borderTopWidth: 1, borderTopColor: colors.line, alignItems: 'flex-start' },
   thead: { borderTopWidth: 0, backgroundColor: colors.surfaceSunk },

@@ -23,14 +23,14 @@ const look = {
 };
 
 /** A one-line flag for a caution; the full text is on the block page. */
-export function CautionFlag({ caution, more }: { caution: CautionFlagView; more?: number }) {
+export function CautionFlag({ caution, more, lines = 2 }: { caution: CautionFlagView; more?: number; /** Lines of text before it is cut short (a narrow table cell needs more). */ lines?: number }) {
   const l = look[caution.tone];
   return (
     <View style={[styles.flag, { backgroundColor: l.bg, borderColor: l.line }]} aria-label={`Caution: ${caution.title}`}>
       <Text variant="label" tone={l.tone}>
         {l.mark}
       </Text>
-      <Text variant="caption" tone={l.tone} style={styles.text} numberOfLines={2}>
+      <Text variant="caption" tone={l.tone} style={styles.text} numberOfLines={lines}>
         {caution.title}
         {more ? ` · ${more} more on the block page` : ''}
       </Text>
