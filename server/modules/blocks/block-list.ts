@@ -269,8 +269,21 @@ async function pageByFigure(ds: DataSource, base: Qb, sort: FigureSort, offset: 
   return around.slice(offset - ahead, offset - ahead + limit).map((r) => r.id);
 }
 
-/** First radius tried for "nearest first", in miles; it grows until the disk holds the page. */
+/** First radius tried for "nearest first", in miles, before any disk has been read; it grows until the disk holds the page. */
 const FIRST_RADIUS_MILES = 30;
+
+/**
+ * Open blocks per square mile in the last disk that held a page (this process; null before the first). The next
+ * "nearest first" starts from the radius that density says holds its page, with half as much again to spare:
+ * a disk walks a latitude band as wide as itself, so a radius twice too large reads twice the index it needs, and
+ * one too small costs another, wider disk. Only where the search starts depends on it, never what it finds.
+ */
+let blocksPerSquareMile: number | null = null;
+
+function firstRadius(needed: number): number {
+  if (blocksPerSquareMile === null || !(blocksPerSquareMile > 0)) return FIRST_RADIUS_MILES;
+  return Math.min(500, Math.max(2, Math.sqrt((1.5 * needed) / (Math.PI * blocksPerSquareMile))));
+}
 
 /**
  * The page's ids nearest first: the smallest disk round home holding every block up to the page's end. The disk's
@@ -280,7 +293,7 @@ const FIRST_RADIUS_MILES = 30;
 async function pageByDistance(ds: DataSource, base: Qb, home: LatLng, maxMiles: number | undefined, total: number, offset: number, limit: number): Promise<string[]> {
   const needed = offset + limit;
   const widest = maxMiles ?? Number.POSITIVE_INFINITY;
-  let miles = needed >= total ? widest : Math.min(widest, FIRST_RADIUS_MILES);
+  let miles = needed >= total ? widest : Math.min(widest, firstRadius(needed));
   let rows: Array<{ id: string; d: number }>;
   for (;;) {
     const qb = base.clone().select('b.id', 'id').addSelect('b.latitude', 'latitude').addSelect('b.longitude', 'longitude');
@@ -290,6 +303,7 @@ async function pageByDistance(ds: DataSource, base: Qb, home: LatLng, maxMiles: 
     const found = await shaped.raw<{ id: string; latitude: number; longitude: number }>(ds, qb);
     rows = found.map((r) => ({ id: r.id, d: distanceMiles(home, r) }));
     if (disk) rows = rows.filter((r) => r.d <= miles);
+    if (disk && rows.length >= needed) blocksPerSquareMile = rows.length / (Math.PI * miles * miles);
     if (rows.length >= needed || !Number.isFinite(miles) || miles >= widest) break;
     // Grow by the area still missing (blocks per square mile so far), at least doubling.
     miles = Math.min(widest, miles * Math.max(2, 1.25 * Math.sqrt(needed / Math.max(1, rows.length))));
