@@ -82,13 +82,13 @@ export interface CautionOptions {
 }
 
 const LABEL_SOURCE = 'US EPA Label Review Manual, ch. 11';
-/** Organic rules' gap between raw manure and harvest (7 CFR 205.203): 90 days, or 120 where the crop touches soil. */
 /**
  * The cautions that come or go with the species brought (the rest follow from the block alone): a grower comparing
  * a sheep bid with a goat bid on a copper-sprayed vineyard sees the difference on the bid itself.
  */
 export const SPECIES_CAUTION_KEYS: readonly CautionKey[] = ['species-not-allowed', 'copper-sheep', 'copper'];
 
+/** Organic rules' gap between raw manure and harvest (7 CFR 205.203): 90 days, or 120 where the crop touches soil. */
 export const ORGANIC_MANURE_DAYS = { noSoilContact: 90, soilContact: 120 } as const;
 const PRODUCE_CROPS = new Set(['orchard', 'vineyard', 'row-crop cover', 'other']);
 
